@@ -1,3 +1,10 @@
 export type { DensityModel, ModelSpec } from "./model/density-model";
 export type { RandomSource } from "./rng/random-source";
 export type { CellSeries, PortfolioData } from "./data/portfolio-data";
+export type { SimulationDesign, SimulatedCellDesign, PortfolioTruth, ChannelTruth, CellTruth } from "./simulate/simulation-design";
+export { simulatePortfolio } from "./simulate/simulate-portfolio";
+export type { SimulatedPortfolio, SimulationOverrides, CellTruthOverride } from "./simulate/simulate-portfolio";
+export { adstockGeometric, adstockWeightSum } from "./model/adstock";
+export { saturationExponential, saturationHill, hillShare, steadyStateResponse } from "./model/saturation";
+export type { SaturationKind } from "./model/saturation";
+export { absoluteWeekOf, mondayOfAbsoluteWeek } from "./model/absolute-week";
