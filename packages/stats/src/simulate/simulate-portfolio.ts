@@ -214,7 +214,7 @@ export function simulatePortfolio(
       const meanPositive = positive > 0 ? total / positive : 1;
       const theta = channels[c]!.lambda * meanPositive;
       adstockGeometric(series, channels[c]!.alpha, maxLag, adstocked);
-      for (let t = 0; t < weeks; t++) noiseless[t] += beta[c]! * saturationExponential(adstocked[t]!, theta);
+      for (let t = 0; t < weeks; t++) noiseless[t] = noiseless[t]! + beta[c]! * saturationExponential(adstocked[t]!, theta);
     }
     let beta0 = 0;
     for (let t = 0; t < weeks; t++) beta0 += noiseless[t]!;

@@ -67,7 +67,7 @@ describe("simulatePortfolio", () => {
         const positive = series.filter((x) => x > 0);
         const xbar = positive.length > 0 ? positive.reduce((a, b) => a + b, 0) / positive.length : 1;
         adstockGeometric(series, ch.alpha, 8, adstocked);
-        for (let t = 0; t < T; t++) media[t] += tc.beta[c]! * saturationExponential(adstocked[t]!, ch.lambda * xbar);
+        for (let t = 0; t < T; t++) media[t] = media[t]! + tc.beta[c]! * saturationExponential(adstocked[t]!, ch.lambda * xbar);
       });
       const mediaMean = media.reduce((a, b) => a + b, 0) / T;
       let sumSq = 0;
