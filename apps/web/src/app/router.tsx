@@ -1,0 +1,87 @@
+import type { QueryClient } from "@tanstack/react-query";
+import type { ComponentType } from "react";
+import { redirect, type LoaderFunction, type LoaderFunctionArgs, type RouteObject } from "react-router-dom";
+import { LoadingState } from "../components/ui/loading-state";
+import { paths, type ScreenKey } from "../config/paths";
+import { currentUserQueryOptions } from "../features/auth/api/get-current-user";
+import { canUseScreen, homeScreenFor } from "../lib/authorization";
+import { AppError, RouteError } from "./route-error";
+import AppRoot, { clientLoader as appRootLoader } from "./routes/app/root";
+import { NotFound } from "./routes/not-found";
+import SignInRoute, { clientLoader as signInLoader } from "./routes/sign-in";
+import { ScreenGate } from "./screen-gate";
+
+/** What every screen's route module exports: the screen and, if it needs data, a loader. */
+export type ScreenRouteModule = {
+  default: ComponentType;
+  clientLoader?: (queryClient: QueryClient) => LoaderFunction;
+};
+
+const screenModules: Record<ScreenKey, () => Promise<ScreenRouteModule>> = {
+  portfolioMap: () => import("./routes/app/portfolio-map"),
+  brandComparison: () => import("./routes/app/brand-comparison"),
+  marketDesk: () => import("./routes/app/market-desk"),
+  channelSheet: () => import("./routes/app/channel-sheet"),
+  dataIntake: () => import("./routes/app/data-intake"),
+  modelSetup: () => import("./routes/app/model-setup"),
+  runs: () => import("./routes/app/runs"),
+  poolingReview: () => import("./routes/app/pooling-review"),
+  spendPlanner: () => import("./routes/app/spend-planner"),
+  budgetSplit: () => import("./routes/app/budget-split"),
+  peopleAccess: () => import("./routes/app/people-access"),
+  outbox: () => import("./routes/app/outbox"),
+};
+
+function screenRoute(queryClient: QueryClient, screen: ScreenKey): RouteObject {
+  return {
+    path: paths.app[screen].path,
+    ErrorBoundary: RouteError,
+    lazy: async () => {
+      const module = await screenModules[screen]();
+      const Screen = module.default;
+      return {
+        loader: async (args: LoaderFunctionArgs) => {
+          const user = await queryClient.ensureQueryData(currentUserQueryOptions());
+          // A role that may not use the screen loads nothing; the gate explains why.
+          if (!user || !canUseScreen(user.role, screen) || !module.clientLoader) return null;
+          return module.clientLoader(queryClient)(args);
+        },
+        Component: () => (
+          <ScreenGate screen={screen}>
+            <Screen />
+          </ScreenGate>
+        ),
+      };
+    },
+  };
+}
+
+export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
+  return [
+    {
+      path: paths.auth.signIn.path,
+      loader: signInLoader(queryClient),
+      Component: SignInRoute,
+      ErrorBoundary: AppError,
+      HydrateFallback: () => <LoadingState />,
+    },
+    {
+      path: paths.home.path,
+      loader: appRootLoader(queryClient),
+      Component: AppRoot,
+      ErrorBoundary: AppError,
+      HydrateFallback: () => <LoadingState />,
+      children: [
+        {
+          index: true,
+          loader: async () => {
+            const user = await queryClient.ensureQueryData(currentUserQueryOptions());
+            return redirect(user ? paths.app[homeScreenFor(user.role)].getHref() : paths.auth.signIn.getHref());
+          },
+        },
+        ...(Object.keys(screenModules) as ScreenKey[]).map((screen) => screenRoute(queryClient, screen)),
+        { path: "*", Component: NotFound },
+      ],
+    },
+  ];
+}

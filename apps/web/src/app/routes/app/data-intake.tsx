@@ -1,0 +1,5 @@
+import { DataIntake } from "../../../features/data-intake/components/data-intake";
+
+export default function DataIntakeRoute() {
+  return <DataIntake />;
+}

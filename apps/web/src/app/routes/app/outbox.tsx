@@ -1,0 +1,5 @@
+import { Outbox } from "../../../features/outbox/components/outbox";
+
+export default function OutboxRoute() {
+  return <Outbox />;
+}

@@ -1,0 +1,5 @@
+import { PeopleAccess } from "../../../features/people-access/components/people-access";
+
+export default function PeopleAccessRoute() {
+  return <PeopleAccess />;
+}

@@ -1,0 +1,5 @@
+import { Runs } from "../../../features/runs/components/runs";
+
+export default function RunsRoute() {
+  return <Runs />;
+}

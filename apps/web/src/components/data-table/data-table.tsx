@@ -1,0 +1,202 @@
+import {
+  flexRender,
+  getCoreRowModel,
+  getFilteredRowModel,
+  getSortedRowModel,
+  useReactTable,
+  type ColumnDef,
+  type FilterFn,
+  type SortingState,
+} from "@tanstack/react-table";
+import { useId, useMemo, useState, type ReactNode } from "react";
+import { Button } from "../ui/button";
+import { downloadFile } from "./download-file";
+import { toCsv, type CsvValue } from "./to-csv";
+
+export type DataTableColumn<Row> = {
+  id: string;
+  header: string;
+  /** The cell's value: what sorting, filtering and CSV export use. null means "no value". */
+  value: (row: Row) => CsvValue;
+  /** How the cell looks; defaults to the value, with an en dash for no value. */
+  cell?: (row: Row) => ReactNode;
+  align?: "start" | "end";
+  sortable?: boolean;
+};
+
+type DataTableProps<Row> = {
+  /** Visible title and accessible name of the table. */
+  caption: string;
+  rows: Row[];
+  columns: DataTableColumn<Row>[];
+  rowKey: (row: Row) => string;
+  /** File name of the CSV export, e.g. "portfolio-cells.csv". */
+  csvFileName: string;
+  emptyMessage?: string;
+  initialSort?: { id: string; desc?: boolean };
+  filterable?: boolean;
+};
+
+const matchesText: FilterFn<unknown> = (row, _columnId, query: string) => {
+  const needle = query.trim().toLowerCase();
+  if (needle === "") return true;
+  return row.getAllCells().some((cell) => String(cell.getValue() ?? "").toLowerCase().includes(needle));
+};
+
+function SortMark({ direction }: { direction: false | "asc" | "desc" }) {
+  return (
+    <svg viewBox="0 0 10 14" className="h-3.5 w-2.5 shrink-0" aria-hidden="true">
+      <path d="M5 1 9 6H1z" fill={direction === "asc" ? "currentColor" : "var(--color-ink-300)"} />
+      <path d="M5 13 1 8h8z" fill={direction === "desc" ? "currentColor" : "var(--color-ink-300)"} />
+    </svg>
+  );
+}
+
+export function DataTable<Row>({
+  caption,
+  rows,
+  columns,
+  rowKey,
+  csvFileName,
+  emptyMessage = "No rows to show.",
+  initialSort,
+  filterable = true,
+}: DataTableProps<Row>) {
+  const filterId = useId();
+  const [sorting, setSorting] = useState<SortingState>(initialSort ? [{ id: initialSort.id, desc: initialSort.desc ?? false }] : []);
+  const [filter, setFilter] = useState("");
+
+  const columnDefs = useMemo<ColumnDef<Row, CsvValue | undefined>[]>(
+    () =>
+      columns.map((column) => ({
+        id: column.id,
+        header: column.header,
+        // undefined lets the table keep empty values last in either direction.
+        accessorFn: (row: Row) => column.value(row) ?? undefined,
+        enableSorting: column.sortable ?? true,
+        sortUndefined: "last",
+        sortingFn: "basic",
+        cell: (context) => {
+          if (column.cell) return column.cell(context.row.original);
+          const value = context.getValue();
+          return value === undefined ? <span className="text-ink-500">–</span> : String(value);
+        },
+      })),
+    [columns],
+  );
+
+  const table = useReactTable<Row>({
+    data: rows,
+    columns: columnDefs,
+    state: { sorting, globalFilter: filter },
+    onSortingChange: setSorting,
+    onGlobalFilterChange: setFilter,
+    globalFilterFn: matchesText as FilterFn<Row>,
+    getRowId: (row) => rowKey(row),
+    getCoreRowModel: getCoreRowModel(),
+    getSortedRowModel: getSortedRowModel(),
+    getFilteredRowModel: getFilteredRowModel(),
+  });
+
+  const visibleRows = table.getRowModel().rows;
+
+  function exportCsv() {
+    const csv = toCsv(
+      columns.map((column) => column.header),
+      visibleRows.map((row) => columns.map((column) => column.value(row.original))),
+    );
+    downloadFile(csvFileName, csv, "text/csv;charset=utf-8");
+  }
+
+  return (
+    <section aria-label={caption} className="rounded-lg border border-line bg-surface shadow-card">
+      <div className="flex flex-wrap items-center justify-between gap-3 border-b border-line px-4 py-3">
+        <h2 className="text-body font-semibold text-ink-900">{caption}</h2>
+        <div className="flex items-center gap-3">
+          {filterable ? (
+            <div className="flex items-center gap-2">
+              <label htmlFor={filterId} className="text-small text-ink-700">
+                Filter rows
+              </label>
+              <input
+                id={filterId}
+                type="search"
+                value={filter}
+                onChange={(event) => setFilter(event.target.value)}
+                className="w-48 rounded-md border border-line-strong bg-surface px-2.5 py-1.5 text-small text-ink-900 placeholder:text-ink-500"
+                placeholder="Type to filter"
+              />
+            </div>
+          ) : null}
+          <Button variant="secondary" onClick={exportCsv} disabled={visibleRows.length === 0}>
+            Export CSV
+          </Button>
+        </div>
+      </div>
+      <div className="overflow-x-auto">
+        <table className="w-full border-collapse text-small">
+          <caption className="sr-only">{caption}</caption>
+          <thead>
+            {table.getHeaderGroups().map((group) => (
+              <tr key={group.id} className="border-b border-line bg-ink-50">
+                {group.headers.map((header) => {
+                  const spec = columns.find((column) => column.id === header.column.id);
+                  const sorted = header.column.getIsSorted();
+                  const alignEnd = spec?.align === "end";
+                  return (
+                    <th
+                      key={header.id}
+                      scope="col"
+                      aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}
+                      className={`px-4 py-2 font-semibold text-ink-800 ${alignEnd ? "text-right" : "text-left"}`}
+                    >
+                      {header.column.getCanSort() ? (
+                        <button
+                          type="button"
+                          onClick={header.column.getToggleSortingHandler()}
+                          className={`inline-flex items-center gap-1.5 rounded-sm hover:text-stream-700 ${alignEnd ? "flex-row-reverse" : ""}`}
+                        >
+                          {flexRender(header.column.columnDef.header, header.getContext())}
+                          <SortMark direction={sorted} />
+                        </button>
+                      ) : (
+                        flexRender(header.column.columnDef.header, header.getContext())
+                      )}
+                    </th>
+                  );
+                })}
+              </tr>
+            ))}
+          </thead>
+          <tbody>
+            {visibleRows.length === 0 ? (
+              <tr>
+                <td colSpan={columns.length} className="px-4 py-6 text-center text-ink-600">
+                  {filter ? "No rows match the filter." : emptyMessage}
+                </td>
+              </tr>
+            ) : (
+              visibleRows.map((row) => (
+                <tr key={row.id} className="border-b border-line last:border-b-0 hover:bg-stream-50/60">
+                  {row.getVisibleCells().map((cell) => {
+                    const alignEnd = columns.find((column) => column.id === cell.column.id)?.align === "end";
+                    return (
+                      <td key={cell.id} className={`px-4 py-2 text-ink-900 ${alignEnd ? "text-right tabular-nums" : ""}`}>
+                        {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                      </td>
+                    );
+                  })}
+                </tr>
+              ))
+            )}
+          </tbody>
+        </table>
+      </div>
+      <p className="border-t border-line px-4 py-2 text-caption text-ink-600" aria-live="polite">
+        {visibleRows.length === rows.length
+          ? `${rows.length} ${rows.length === 1 ? "row" : "rows"}`
+          : `Showing ${visibleRows.length} of ${rows.length} rows`}
+      </p>
+    </section>
+  );
+}

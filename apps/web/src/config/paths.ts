@@ -1,0 +1,36 @@
+// Every path of the web app, in one place. Routes use `path`, links use `getHref`.
+
+/** Only same-site paths may be used as a redirect target after sign-in. */
+export function safeRedirectTarget(target: string | null | undefined): string | null {
+  if (!target || !target.startsWith("/") || target.startsWith("//") || target.startsWith("/\\")) return null;
+  return target;
+}
+
+export const paths = {
+  home: { path: "/", getHref: () => "/" },
+  auth: {
+    signIn: {
+      path: "/sign-in",
+      getHref: (redirectTo?: string | null) => {
+        const target = safeRedirectTarget(redirectTo);
+        return target && target !== "/" ? `/sign-in?redirectTo=${encodeURIComponent(target)}` : "/sign-in";
+      },
+    },
+  },
+  app: {
+    portfolioMap: { path: "/portfolio-map", getHref: () => "/portfolio-map" },
+    brandComparison: { path: "/brand-comparison", getHref: () => "/brand-comparison" },
+    marketDesk: { path: "/market-desk", getHref: () => "/market-desk" },
+    channelSheet: { path: "/channel-sheet", getHref: () => "/channel-sheet" },
+    dataIntake: { path: "/data-intake", getHref: () => "/data-intake" },
+    modelSetup: { path: "/model-setup", getHref: () => "/model-setup" },
+    runs: { path: "/runs", getHref: () => "/runs" },
+    poolingReview: { path: "/pooling-review", getHref: () => "/pooling-review" },
+    spendPlanner: { path: "/spend-planner", getHref: () => "/spend-planner" },
+    budgetSplit: { path: "/budget-split", getHref: () => "/budget-split" },
+    peopleAccess: { path: "/people-access", getHref: () => "/people-access" },
+    outbox: { path: "/outbox", getHref: () => "/outbox" },
+  },
+} as const;
+
+export type ScreenKey = keyof typeof paths.app;

@@ -1,0 +1,20 @@
+import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { api } from "../../../lib/api-client";
+import { currentUserQueryOptions } from "./get-current-user";
+
+export function signOut(): Promise<void> {
+  return api.post<void>("/api/auth/sign-out", null, undefined, { redirectOnUnauthenticated: false });
+}
+
+export function useSignOut({ onSuccess }: { onSuccess?: () => void } = {}) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: signOut,
+    onSuccess: () => {
+      const meKey = currentUserQueryOptions().queryKey;
+      queryClient.removeQueries({ predicate: (query) => query.queryKey[0] !== meKey[0] });
+      queryClient.setQueryData(meKey, null);
+      onSuccess?.();
+    },
+  });
+}

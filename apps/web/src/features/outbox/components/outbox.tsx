@@ -1,0 +1,19 @@
+import { EmptyState } from "../../../components/ui/empty-state";
+import { PageHeader } from "../../../components/ui/page-header";
+import { ScreenOutline } from "../../../components/ui/screen-outline";
+
+const outline = [
+  "Each message: recipient, subject and time sent",
+  "The full message, as the recipient would read it",
+  "Invitations and notices of newly published fits",
+];
+
+export function Outbox() {
+  return (
+    <>
+      <PageHeader title="Outbox" description="In local mode, every e-mail the product sent, readable here instead of in a mailbox." />
+      <ScreenOutline items={outline} />
+      <EmptyState title="No e-mails sent yet">The product has not sent any e-mail yet. Messages will be listed here as they are sent.</EmptyState>
+    </>
+  );
+}
