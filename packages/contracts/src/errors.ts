@@ -16,6 +16,9 @@ export const apiErrorSchema = z.object({
     message: z.string(),
     /** Field-level problems, e.g. from zod: path and message. */
     issues: z.array(z.object({ path: z.string(), message: z.string() })).optional(),
+    /** The request's id (also in the X-Request-Id header), to quote when reporting a problem. */
+    requestId: z.string().optional(),
   }),
 });
 export type ApiError = z.infer<typeof apiErrorSchema>;
+export type ApiErrorCode = ApiError["error"]["code"];

@@ -35,3 +35,12 @@ export type Market = z.infer<typeof marketSchema>;
 export type Channel = z.infer<typeof channelSchema>;
 export type Cell = z.infer<typeof cellSchema>;
 export type Portfolio = z.infer<typeof portfolioSchema>;
+
+/** GET /api/markets/:marketId: one market and its cells (brand × market) in the current dataset. */
+export const marketDetailSchema = z.object({
+  market: marketSchema,
+  brands: z.array(brandSchema),
+  cells: z.array(cellSchema),
+  datasetVersionId: z.string().nullable(),
+});
+export type MarketDetail = z.infer<typeof marketDetailSchema>;

@@ -1,0 +1,80 @@
+// Builds the Express app (no listen): tests drive it with supertest, server.ts serves it.
+import { randomUUID } from "node:crypto";
+import { join } from "node:path";
+import express, { type Express, type RequestHandler } from "express";
+import helmet from "helmet";
+import { verifyRequestOrigin } from "lucia";
+import { pino, type Logger } from "pino";
+import { pinoHttp } from "pino-http";
+import { mountRoutes } from "./access/mount-routes";
+import type { AppDeps, Route } from "./access/route-table";
+import { createAuth } from "./auth/lucia";
+import { authenticate } from "./auth/session";
+import { defaultConfig, type AppConfig } from "./config";
+import type { Database } from "./db/client";
+import { apiNotFound, errorHandler } from "./http/error-handler";
+import { Forbidden } from "./http/errors";
+import { createOutboxMailer, type Mailer } from "./mail/mailer";
+import { routeTable } from "./routes";
+
+export interface CreateAppOptions {
+  readonly db: Database;
+  readonly mailer?: Mailer;
+  readonly config?: Partial<AppConfig>;
+  readonly logger?: Logger;
+  /** Replaces the route table (tests of the authorization layer). */
+  readonly routes?: readonly Route[];
+}
+
+/** Refuses writes whose Origin is another site (lucia's CSRF check); same-site and non-browser clients pass. */
+const sameOriginWrites: RequestHandler = (req, _res, next) => {
+  if (req.method === "GET" || req.method === "HEAD" || req.method === "OPTIONS") return next();
+  const origin = req.get("origin");
+  if (origin && !verifyRequestOrigin(origin, [req.host])) throw new Forbidden("Cross-site request refused");
+  next();
+};
+
+export function createApp(options: CreateAppOptions): Express {
+  const config: AppConfig = { ...defaultConfig, ...options.config };
+  const logger =
+    options.logger ??
+    pino({
+      level: config.logLevel,
+      redact: ["req.headers.cookie", "req.headers.authorization", 'res.headers["set-cookie"]'],
+    });
+  const deps: AppDeps = {
+    db: options.db,
+    config,
+    auth: createAuth(options.db, config),
+    mailer: options.mailer ?? createOutboxMailer(options.db),
+  };
+
+  const app = express();
+  app.set("trust proxy", config.trustProxy);
+  app.disable("x-powered-by");
+  app.use(
+    pinoHttp({
+      logger,
+      genReqId: (_req, res) => {
+        const id = randomUUID();
+        res.setHeader("X-Request-Id", id);
+        return id;
+      },
+    }),
+  );
+  // Local http must keep working, so no forced upgrade to https.
+  app.use(helmet({ contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } } }));
+
+  app.use("/api", express.json({ limit: "1mb" }), sameOriginWrites, authenticate(deps.auth, deps.db));
+  app.use(mountRoutes(options.routes ?? routeTable, deps));
+  app.use("/api", apiNotFound);
+
+  if (config.webDistDir) {
+    const webDistDir = config.webDistDir;
+    app.use(express.static(webDistDir, { index: false }));
+    app.get("/{*splat}", (_req, res) => res.sendFile(join(webDistDir, "index.html")));
+  }
+  app.use(apiNotFound);
+  app.use(errorHandler);
+  return app;
+}

@@ -1,0 +1,33 @@
+// lucia v3 over the Drizzle tables: database sessions with sliding expiry.
+import { DrizzlePostgreSQLAdapter } from "@lucia-auth/adapter-drizzle";
+import { Lucia, TimeSpan } from "lucia";
+import type { Role } from "@tributary/contracts";
+import type { AppConfig } from "../config";
+import type { Database } from "../db/client";
+import { sessions, users } from "../db/schema";
+
+export const sessionCookieName = "tributary_session";
+
+export function createAuth(db: Database, config: Pick<AppConfig, "sessionIdleDays">) {
+  const adapter = new DrizzlePostgreSQLAdapter(db, sessions, users);
+  // lucia extends a session to the full period when it is used in the second half of it.
+  return new Lucia(adapter, {
+    sessionExpiresIn: new TimeSpan(config.sessionIdleDays, "d"),
+    sessionCookie: { name: sessionCookieName, expires: true, attributes: { sameSite: "lax" } },
+    getUserAttributes: (attributes) => ({
+      email: attributes.email,
+      name: attributes.name,
+      role: attributes.role,
+      disabled: attributes.disabled,
+    }),
+  });
+}
+
+export type Auth = ReturnType<typeof createAuth>;
+
+declare module "lucia" {
+  interface Register {
+    Lucia: Auth;
+    DatabaseUserAttributes: { email: string; name: string; role: Role; disabled: boolean };
+  }
+}

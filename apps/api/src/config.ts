@@ -1,0 +1,63 @@
+// Settings read from the environment once at start; tests build them directly.
+import { readFileSync } from "node:fs";
+import { fileURLToPath } from "node:url";
+
+export interface AppConfig {
+  /** Shown by GET /api/health. */
+  readonly version: string;
+  /** Express "trust proxy": set when behind a proxy so https and client IPs are seen. */
+  readonly trustProxy: boolean | number | string;
+  /** A session unused for this many days expires (sliding: use extends it). */
+  readonly sessionIdleDays: number;
+  /** Sign-in attempts allowed per IP and e-mail in one window. */
+  readonly signInLimit: { readonly attempts: number; readonly windowMinutes: number };
+  /** Directory of the built web app to serve, with an SPA fallback; none in tests. */
+  readonly webDistDir: string | null;
+  /** pino level: "info" by default, "silent" in tests. */
+  readonly logLevel: string;
+}
+
+export const repoRoot = fileURLToPath(new URL("../../../", import.meta.url));
+
+export function apiVersion(): string {
+  const pkg = JSON.parse(readFileSync(new URL("../package.json", import.meta.url), "utf8")) as { version?: string };
+  return pkg.version ?? "0.0.0";
+}
+
+export const defaultConfig: AppConfig = {
+  version: apiVersion(),
+  trustProxy: false,
+  sessionIdleDays: 30,
+  signInLimit: { attempts: 10, windowMinutes: 15 },
+  webDistDir: null,
+  logLevel: "info",
+};
+
+function positiveNumber(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
+  const raw = env[name];
+  if (raw === undefined || raw === "") return fallback;
+  const value = Number(raw);
+  if (!Number.isFinite(value) || value <= 0) throw new Error(`${name} must be a positive number, got "${raw}"`);
+  return value;
+}
+
+function trustProxyFrom(raw: string | undefined): boolean | number | string {
+  if (raw === undefined || raw === "" || raw === "false") return false;
+  if (raw === "true") return true;
+  return /^\d+$/.test(raw) ? Number(raw) : raw;
+}
+
+/** Config from environment variables (see apps/api/README.md). Throws a clear message on bad values. */
+export function configFromEnv(env: NodeJS.ProcessEnv, webDistDir: string | null): AppConfig {
+  return {
+    ...defaultConfig,
+    trustProxy: trustProxyFrom(env.TRUST_PROXY),
+    sessionIdleDays: positiveNumber(env, "SESSION_IDLE_DAYS", defaultConfig.sessionIdleDays),
+    signInLimit: {
+      attempts: positiveNumber(env, "SIGN_IN_ATTEMPTS", defaultConfig.signInLimit.attempts),
+      windowMinutes: defaultConfig.signInLimit.windowMinutes,
+    },
+    webDistDir,
+    logLevel: env.LOG_LEVEL || defaultConfig.logLevel,
+  };
+}

@@ -1,0 +1,17 @@
+// The API's route table: one module per resource; a new route is one entry in its module.
+import type { Route } from "../access/route-table";
+import { authRoutes } from "./auth";
+import { brandRoutes } from "./brands";
+import { channelRoutes } from "./channels";
+import { healthRoutes } from "./health";
+import { marketRoutes } from "./markets";
+import { portfolioRoutes } from "./portfolio";
+
+export const routeTable: readonly Route[] = [
+  ...healthRoutes,
+  ...authRoutes,
+  ...portfolioRoutes,
+  ...brandRoutes,
+  ...marketRoutes,
+  ...channelRoutes,
+];
