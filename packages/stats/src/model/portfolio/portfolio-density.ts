@@ -1,0 +1,659 @@
+import type { DensityModel } from "../density-model";
+import type { RandomSource } from "../../rng/random-source";
+import { adstockGeometricUnchecked, adstockWeightSum, adstockWeightSumDerivative } from "../adstock";
+import { digamma, logGamma } from "../special-functions";
+import { betaPriorOnLogit, gammaPriorOnLog, halfNormalPriorOnLog, logistic } from "../priors";
+import type { PortfolioConstants } from "./portfolio-constants";
+import type { ParameterLayout } from "./parameter-layout";
+import type { ResolvedPortfolioOptions } from "./portfolio-options";
+import { portfolioParameterNames } from "./portfolio-names";
+
+const LOG_TWO = Math.LN2;
+const LAMBDA_PRIOR_SD = 0.75;
+const HILL_SHAPE_PRIOR_SD = 0.5;
+const TAU_PRIOR_SCALE = 0.5;
+
+/**
+ * The log posterior density of the portfolio model (model.md) on the unconstrained
+ * vector, with its hand-derived gradient. All buffers are allocated here, once; an
+ * evaluation allocates nothing. Per evaluation the adstock is recomputed in one pass
+ * per cell × channel (with its α-derivative) and one exponential is taken per
+ * cell × channel × training week.
+ */
+export class PortfolioDensity implements DensityModel {
+  readonly dimension: number;
+  readonly constrainedNames: readonly string[];
+  readonly constants: PortfolioConstants;
+  readonly options: ResolvedPortfolioOptions;
+  readonly layout: ParameterLayout;
+  /** Offset added to cell indices in parameter names (the unpooled per-cell models use their global index). */
+  readonly cellIndexOffset: number;
+
+  // parameter values, per evaluation
+  private readonly mu: Float64Array;
+  private readonly tauBrand: Float64Array;
+  private readonly tauMarket: Float64Array;
+  private readonly tauCell: Float64Array;
+  private readonly alpha: Float64Array;
+  private readonly lambda: Float64Array;
+  private readonly hillShape: Float64Array;
+  private readonly beta: Float64Array;
+  private readonly theta: Float64Array;
+  private readonly gradLogBeta: Float64Array;
+  private readonly gradAlpha: Float64Array;
+  private readonly gradLogTheta: Float64Array;
+  private readonly gradLogShape: Float64Array;
+  private readonly mediaMean: Float64Array;
+  // per cell × channel × week media buffers (length C · totalWeeks)
+  private readonly adstock: Float64Array;
+  private readonly adstockDerivative: Float64Array;
+  private readonly response: Float64Array;
+  private readonly responseSlope: Float64Array;
+  private readonly responseThetaDerivative: Float64Array;
+  private readonly responseShapeDerivative: Float64Array;
+  /** Number of weeks of adstock needed per cell × channel (training weeks, or up to the last lift-test week). */
+  private readonly adstockLength: Int32Array;
+  // per week buffers
+  private readonly mean: Float64Array;
+  private readonly rho: Float64Array;
+  private readonly hillScratch = new Float64Array(4);
+  /** Receives prior derivatives when only values are wanted. */
+  private readonly priorScratch = new Float64Array(1);
+
+  constructor(
+    constants: PortfolioConstants,
+    options: ResolvedPortfolioOptions,
+    layout: ParameterLayout,
+    cellIndexOffset = 0,
+  ) {
+    this.constants = constants;
+    this.options = options;
+    this.layout = layout;
+    this.cellIndexOffset = cellIndexOffset;
+    this.dimension = layout.dimension;
+    this.constrainedNames = portfolioParameterNames(constants, options, layout, cellIndexOffset);
+    const C = constants.channelCount;
+    const G = constants.cellCount;
+    const N = constants.totalWeeks;
+    this.mu = new Float64Array(C);
+    this.tauBrand = new Float64Array(C);
+    this.tauMarket = new Float64Array(C);
+    this.tauCell = new Float64Array(C);
+    this.alpha = new Float64Array(C);
+    this.lambda = new Float64Array(C);
+    this.hillShape = new Float64Array(C).fill(1);
+    this.beta = new Float64Array(G * C);
+    this.theta = new Float64Array(G * C);
+    this.gradLogBeta = new Float64Array(G * C);
+    this.gradAlpha = new Float64Array(C);
+    this.gradLogTheta = new Float64Array(G * C);
+    this.gradLogShape = new Float64Array(C);
+    this.mediaMean = new Float64Array(G * C);
+    this.adstock = new Float64Array(C * N);
+    this.adstockDerivative = new Float64Array(C * N);
+    this.response = new Float64Array(C * N);
+    this.responseSlope = new Float64Array(C * N);
+    this.responseThetaDerivative = new Float64Array(C * N);
+    this.responseShapeDerivative = new Float64Array(options.saturation === "hill" ? C * N : 0);
+    this.mean = new Float64Array(N);
+    this.rho = new Float64Array(N);
+    this.adstockLength = new Int32Array(G * C);
+    for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) this.adstockLength[g * C + c] = constants.trainWeeks[g]!;
+    for (const test of constants.liftTests) {
+      const gc = test.cell * C + test.channel;
+      this.adstockLength[gc] = Math.max(this.adstockLength[gc]!, test.lastWeek + 1);
+    }
+  }
+
+  /** Reads q into the channel-level values and the cell effects β, θ; returns the log prior of those blocks. */
+  private readChannelBlocks(q: Float64Array, grad: Float64Array | undefined): number {
+    const k = this.constants;
+    const lay = this.layout;
+    const C = k.channelCount;
+    const G = k.cellCount;
+    const scratch = grad ?? this.priorScratch;
+    let lp = 0;
+    for (let c = 0; c < C; c++) {
+      const uMu = q[lay.mu + c]!;
+      this.mu[c] = k.muPriorMean[c]! + k.muPriorSd[c]! * uMu;
+      lp -= 0.5 * uMu * uMu;
+      if (grad) grad[lay.mu + c] = -uMu;
+      if (lay.tauBrand >= 0) {
+        this.tauBrand[c] = Math.exp(q[lay.tauBrand + c]!);
+        lp += halfNormalPriorOnLog(q[lay.tauBrand + c]!, TAU_PRIOR_SCALE, scratch, grad ? lay.tauBrand + c : 0);
+      } else this.tauBrand[c] = 0;
+      if (lay.tauMarket >= 0) {
+        this.tauMarket[c] = Math.exp(q[lay.tauMarket + c]!);
+        lp += halfNormalPriorOnLog(q[lay.tauMarket + c]!, TAU_PRIOR_SCALE, scratch, grad ? lay.tauMarket + c : 0);
+      } else this.tauMarket[c] = 0;
+      if (lay.tauCell >= 0) {
+        this.tauCell[c] = Math.exp(q[lay.tauCell + c]!);
+        lp += halfNormalPriorOnLog(q[lay.tauCell + c]!, TAU_PRIOR_SCALE, scratch, grad ? lay.tauCell + c : 0);
+      } else this.tauCell[c] = 0;
+      const uAlpha = q[lay.alpha + c]!;
+      this.alpha[c] = logistic(uAlpha);
+      lp += betaPriorOnLogit(uAlpha, 2, 2, scratch, grad ? lay.alpha + c : 0);
+      const uLambda = q[lay.lambda + c]!;
+      this.lambda[c] = Math.exp(LOG_TWO + LAMBDA_PRIOR_SD * uLambda);
+      lp -= 0.5 * uLambda * uLambda;
+      if (grad) grad[lay.lambda + c] = -uLambda;
+      if (lay.hillShape >= 0) {
+        const uShape = q[lay.hillShape + c]!;
+        this.hillShape[c] = Math.exp(HILL_SHAPE_PRIOR_SD * uShape);
+        lp -= 0.5 * uShape * uShape;
+        if (grad) grad[lay.hillShape + c] = -uShape;
+      }
+    }
+    const B = k.brands.length;
+    const M = k.markets.length;
+    if (lay.zBrand >= 0) lp += standardNormalBlock(q, lay.zBrand, B * C, grad);
+    if (lay.zMarket >= 0) lp += standardNormalBlock(q, lay.zMarket, M * C, grad);
+    if (lay.zCell >= 0) lp += standardNormalBlock(q, lay.zCell, G * C, grad);
+    for (let g = 0; g < G; g++) {
+      const b = k.cellBrand[g]!;
+      const m = k.cellMarket[g]!;
+      for (let c = 0; c < C; c++) {
+        let logBeta = this.mu[c]!;
+        if (lay.zBrand >= 0) logBeta += this.tauBrand[c]! * q[lay.zBrand + b * C + c]!;
+        if (lay.zMarket >= 0) logBeta += this.tauMarket[c]! * q[lay.zMarket + m * C + c]!;
+        if (lay.zCell >= 0) logBeta += this.tauCell[c]! * q[lay.zCell + g * C + c]!;
+        this.beta[g * C + c] = Math.exp(logBeta);
+        this.theta[g * C + c] = this.lambda[c]! * k.spendMean[g * C + c]!;
+      }
+    }
+    return lp;
+  }
+
+  /** Adstock, saturation and their derivatives for every active cell × channel; writes the media means. */
+  private computeMedia(withDerivatives: boolean): void {
+    const k = this.constants;
+    const C = k.channelCount;
+    const G = k.cellCount;
+    const L = k.maxLag;
+    const hill = this.options.saturation === "hill";
+    const adstock = this.adstock;
+    const dAdstock = this.adstockDerivative;
+    const response = this.response;
+    const slope = this.responseSlope;
+    const dTheta = this.responseThetaDerivative;
+    const dShape = this.responseShapeDerivative;
+    const hs = this.hillScratch;
+    for (let g = 0; g < G; g++) {
+      const train = k.trainWeeks[g]!;
+      for (let c = 0; c < C; c++) {
+        const gc = g * C + c;
+        if (k.channelActive[gc] === 0) {
+          this.mediaMean[gc] = 0;
+          continue;
+        }
+        const start = k.mediaStart[gc]!;
+        const length = this.adstockLength[gc]!;
+        adstockGeometricUnchecked(k.spend, length, this.alpha[c]!, L, adstock, withDerivatives ? dAdstock : undefined, start);
+        const theta = this.theta[gc]!;
+        let sum = 0;
+        if (!hill) {
+          const invTheta = 1 / theta;
+          for (let i = start, end = start + train; i < end; i++) {
+            const ratio = adstock[i]! * invTheta;
+            const e = Math.exp(-ratio);
+            const r = theta * (1 - e);
+            response[i] = r;
+            slope[i] = e;
+            dTheta[i] = 1 - e - ratio * e;
+            sum += r;
+          }
+        } else {
+          const shape = this.hillShape[c]!;
+          for (let i = start, end = start + train; i < end; i++) {
+            hillWithDerivatives(adstock[i]!, theta, shape, hs);
+            response[i] = hs[0]!;
+            slope[i] = hs[1]!;
+            dTheta[i] = hs[2]!;
+            dShape[i] = hs[3]!;
+            sum += hs[0]!;
+          }
+        }
+        this.mediaMean[gc] = sum / train;
+      }
+    }
+  }
+
+  logDensityGradient(q: Float64Array, grad: Float64Array): number {
+    grad.fill(0);
+    const k = this.constants;
+    const lay = this.layout;
+    const C = k.channelCount;
+    const G = k.cellCount;
+    const J = k.seasonalityOrder;
+    const K = k.controlCount;
+    let lp = this.readChannelBlocks(q, grad);
+    this.computeMedia(true);
+    this.gradLogBeta.fill(0);
+    this.gradLogTheta.fill(0);
+    this.gradAlpha.fill(0);
+    this.gradLogShape.fill(0);
+
+    const studentT = lay.nu >= 0;
+    let nu = 0;
+    let nuConstant = 0;
+    let gradNuPerWeek = 0;
+    let gradNu = 0;
+    let weeksInLikelihood = 0;
+    if (studentT) {
+      const uNu = q[lay.nu]!;
+      nu = Math.exp(uNu);
+      lp += gammaPriorOnLog(uNu, 2, 0.1, grad, lay.nu);
+      nuConstant = logGamma((nu + 1) / 2) - logGamma(nu / 2) - 0.5 * Math.log(nu);
+      gradNuPerWeek = 0.5 * digamma((nu + 1) / 2) - 0.5 * digamma(nu / 2) - 0.5 / nu;
+    }
+
+    const mean = this.mean;
+    const rho = this.rho;
+    const response = this.response;
+    const slope = this.responseSlope;
+    const dTheta = this.responseThetaDerivative;
+    const dShape = this.responseShapeDerivative;
+    const dAdstock = this.adstockDerivative;
+    const hill = lay.hillShape >= 0;
+    for (let g = 0; g < G; g++) {
+      const T = k.weeks[g]!;
+      const train = k.trainWeeks[g]!;
+      const start = k.weekStart[g]!;
+      const scale = k.outcomeScale[g]!;
+      const block = lay.cells + g * lay.cellStride;
+      const u0 = q[block]!;
+      const u1 = q[block + 1]!;
+      const beta0 = k.outcomeMean[g]! + scale * u0;
+      const beta1 = scale * u1;
+      lp -= 0.5 * (u0 * u0 + u1 * u1);
+      grad[block] = -u0;
+      grad[block + 1] = -u1;
+      for (let t = 0; t < train; t++) mean[start + t] = beta0 + beta1 * k.trend[start + t]!;
+      const sBase = k.seasonalStart[g]!;
+      for (let j = 0; j < 2 * J; j++) {
+        const u = q[block + 2 + j]!;
+        lp -= 0.5 * u * u;
+        grad[block + 2 + j] = -u;
+        const coef = 0.5 * scale * u;
+        const col = sBase + j * T;
+        for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + coef * k.seasonal[col + t]!;
+      }
+      const logSigmaIndex = block + 2 + 2 * J;
+      const vSigma = q[logSigmaIndex]!;
+      const sigma = scale * Math.exp(vSigma);
+      // σ ~ HalfNormal(s): on v = log(σ/s), log p = −e^{2v}/2 + v
+      const sigmaOverScale = Math.exp(vSigma);
+      lp += -0.5 * sigmaOverScale * sigmaOverScale + vSigma;
+      grad[logSigmaIndex] = -sigmaOverScale * sigmaOverScale + 1;
+      const cBase = k.controlStart[g]!;
+      for (let j = 0; j < K; j++) {
+        const u = q[logSigmaIndex + 1 + j]!;
+        lp -= 0.5 * u * u;
+        grad[logSigmaIndex + 1 + j] = -u;
+        const coef = scale * u;
+        const col = cBase + j * T;
+        for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + coef * k.controlDesign[col + t]!;
+      }
+      for (let c = 0; c < C; c++) {
+        const gc = g * C + c;
+        if (k.channelActive[gc] === 0) continue;
+        const b = this.beta[gc]!;
+        const shift = b * this.mediaMean[gc]!;
+        const ms = k.mediaStart[gc]!;
+        for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + b * response[ms + t]! - shift;
+      }
+
+      // likelihood over the training weeks
+      let sumRho = 0;
+      let gradV = 0;
+      const invSigma = 1 / sigma;
+      if (!studentT) {
+        let sumSq = 0;
+        const invVar = invSigma * invSigma;
+        for (let t = 0; t < train; t++) {
+          const e = k.outcome[start + t]! - mean[start + t]!;
+          sumSq += e * e;
+          const r = e * invVar;
+          rho[start + t] = r;
+          sumRho += r;
+        }
+        lp += -train * Math.log(sigma) - 0.5 * sumSq * invVar;
+        gradV = -train + sumSq * invVar;
+      } else {
+        let sumLog = 0;
+        for (let t = 0; t < train; t++) {
+          const e = k.outcome[start + t]! - mean[start + t]!;
+          const z = e * invSigma;
+          const z2 = z * z;
+          const denom = nu + z2;
+          sumLog += Math.log1p(z2 / nu);
+          const r = ((nu + 1) * z * invSigma) / denom;
+          rho[start + t] = r;
+          sumRho += r;
+          gradV += ((nu + 1) * z2) / denom - 1;
+          gradNu += (0.5 * (nu + 1) * z2) / (nu * denom);
+        }
+        lp += train * (nuConstant - Math.log(sigma)) - 0.5 * (nu + 1) * sumLog;
+        gradNu -= 0.5 * sumLog;
+        weeksInLikelihood += train;
+      }
+      grad[logSigmaIndex] = grad[logSigmaIndex]! + gradV;
+      const rhoMean = sumRho / train;
+
+      // baseline coefficients
+      let gTrend = 0;
+      for (let t = 0; t < train; t++) gTrend += rho[start + t]! * k.trend[start + t]!;
+      grad[block] = grad[block]! + scale * sumRho;
+      grad[block + 1] = grad[block + 1]! + scale * gTrend;
+      for (let j = 0; j < 2 * J; j++) {
+        const col = sBase + j * T;
+        let s = 0;
+        for (let t = 0; t < train; t++) s += rho[start + t]! * k.seasonal[col + t]!;
+        grad[block + 2 + j] = grad[block + 2 + j]! + 0.5 * scale * s;
+      }
+      for (let j = 0; j < K; j++) {
+        const col = cBase + j * T;
+        let s = 0;
+        for (let t = 0; t < train; t++) s += rho[start + t]! * k.controlDesign[col + t]!;
+        grad[logSigmaIndex + 1 + j] = grad[logSigmaIndex + 1 + j]! + scale * s;
+      }
+
+      // media: d/dr[t] = β (ρ[t] − ρ̄) because r̃ = r − mean(r)
+      for (let c = 0; c < C; c++) {
+        const gc = g * C + c;
+        if (k.channelActive[gc] === 0) continue;
+        const ms = k.mediaStart[gc]!;
+        let sR = 0;
+        let sTheta = 0;
+        let sAlpha = 0;
+        let sShape = 0;
+        for (let t = 0; t < train; t++) {
+          const phi = rho[start + t]! - rhoMean;
+          const i = ms + t;
+          sR += phi * response[i]!;
+          sTheta += phi * dTheta[i]!;
+          sAlpha += phi * slope[i]! * dAdstock[i]!;
+          if (hill) sShape += phi * dShape[i]!;
+        }
+        const b = this.beta[gc]!;
+        this.gradLogBeta[gc] = this.gradLogBeta[gc]! + b * sR;
+        this.gradLogTheta[gc] = this.gradLogTheta[gc]! + b * sTheta * this.theta[gc]!;
+        this.gradAlpha[c] = this.gradAlpha[c]! + b * sAlpha;
+        if (hill) this.gradLogShape[c] = this.gradLogShape[c]! + b * sShape * this.hillShape[c]!;
+      }
+    }
+    if (studentT) {
+      gradNu += weeksInLikelihood * gradNuPerWeek;
+      grad[lay.nu] = grad[lay.nu]! + gradNu * nu;
+    }
+
+    if (k.liftTests.length > 0) lp += this.liftTestTerm(true);
+
+    // chain rule back to the unconstrained coordinates
+    for (let c = 0; c < C; c++) {
+      let gMu = 0;
+      let gTauB = 0;
+      let gTauM = 0;
+      let gTauG = 0;
+      let gLogLambda = 0;
+      for (let g = 0; g < G; g++) {
+        const gc = g * C + c;
+        const gb = this.gradLogBeta[gc]!;
+        gMu += gb;
+        if (lay.zBrand >= 0) {
+          const zi = lay.zBrand + k.cellBrand[g]! * C + c;
+          gTauB += gb * q[zi]!;
+          grad[zi] = grad[zi]! + gb * this.tauBrand[c]!;
+        }
+        if (lay.zMarket >= 0) {
+          const zi = lay.zMarket + k.cellMarket[g]! * C + c;
+          gTauM += gb * q[zi]!;
+          grad[zi] = grad[zi]! + gb * this.tauMarket[c]!;
+        }
+        if (lay.zCell >= 0) {
+          const zi = lay.zCell + g * C + c;
+          gTauG += gb * q[zi]!;
+          grad[zi] = grad[zi]! + gb * this.tauCell[c]!;
+        }
+        gLogLambda += this.gradLogTheta[gc]!;
+      }
+      grad[lay.mu + c] = grad[lay.mu + c]! + gMu * k.muPriorSd[c]!;
+      if (lay.tauBrand >= 0) grad[lay.tauBrand + c] = grad[lay.tauBrand + c]! + gTauB * this.tauBrand[c]!;
+      if (lay.tauMarket >= 0) grad[lay.tauMarket + c] = grad[lay.tauMarket + c]! + gTauM * this.tauMarket[c]!;
+      if (lay.tauCell >= 0) grad[lay.tauCell + c] = grad[lay.tauCell + c]! + gTauG * this.tauCell[c]!;
+      const a = this.alpha[c]!;
+      grad[lay.alpha + c] = grad[lay.alpha + c]! + this.gradAlpha[c]! * a * (1 - a);
+      grad[lay.lambda + c] = grad[lay.lambda + c]! + gLogLambda * LAMBDA_PRIOR_SD;
+      if (lay.hillShape >= 0) grad[lay.hillShape + c] = grad[lay.hillShape + c]! + this.gradLogShape[c]! * HILL_SHAPE_PRIOR_SD;
+    }
+    return lp;
+  }
+
+  /**
+   * Lift tests: measured ~ Normal(β·Σ_window [r(a) − r(a − b)], se), where b is the adstock
+   * of the channel's spend inside the window only (so a − b is the adstock with that spend
+   * set to zero). Adds to the gradient buffers when `withGradient`.
+   */
+  private liftTestTerm(withGradient: boolean): number {
+    const k = this.constants;
+    const C = k.channelCount;
+    const L = k.maxLag;
+    const hill = this.options.saturation === "hill";
+    const hs = this.hillScratch;
+    let lp = 0;
+    for (const test of k.liftTests) {
+      const c = test.channel;
+      const gc = test.cell * C + c;
+      const alpha = this.alpha[c]!;
+      const theta = this.theta[gc]!;
+      const shape = this.hillShape[c]!;
+      const b = this.beta[gc]!;
+      const W = adstockWeightSum(alpha, L);
+      const dW = adstockWeightSumDerivative(alpha, L);
+      const ms = k.mediaStart[gc]!;
+      let sumR = 0;
+      let sumTheta = 0;
+      let sumAlpha = 0;
+      let sumShape = 0;
+      for (let t = test.firstWeek; t <= test.lastWeek; t++) {
+        // window-only adstock b[t] and its α-derivative
+        let windowAdstock = 0;
+        let dWindow = 0;
+        let power = 1;
+        let powerBelow = 0; // α^{l−1}
+        for (let l = 0; l < L && t - l >= test.firstWeek; l++) {
+          const x = k.spend[ms + t - l]!;
+          windowAdstock += power * x;
+          dWindow += (l * powerBelow * W - power * dW) * x;
+          powerBelow = power;
+          power *= alpha;
+        }
+        windowAdstock /= W;
+        dWindow /= W * W;
+        const a = this.adstock[ms + t]!;
+        const da = this.adstockDerivative[ms + t]!;
+        const a0 = a - windowAdstock;
+        const da0 = da - dWindow;
+        if (!hill) {
+          const e = Math.exp(-a / theta);
+          const e0 = Math.exp(-a0 / theta);
+          sumR += theta * (e0 - e);
+          sumTheta += 1 - e - (a / theta) * e - (1 - e0 - (a0 / theta) * e0);
+          sumAlpha += e * da - e0 * da0;
+        } else {
+          hillWithDerivatives(a, theta, shape, hs);
+          const r = hs[0]!;
+          const ra = hs[1]!;
+          const rt = hs[2]!;
+          const rk = hs[3]!;
+          hillWithDerivatives(a0, theta, shape, hs);
+          sumR += r - hs[0]!;
+          sumTheta += rt - hs[2]!;
+          sumAlpha += ra * da - hs[1]! * da0;
+          sumShape += rk - hs[3]!;
+        }
+      }
+      const implied = b * sumR;
+      const z = (test.incrementalOutcome - implied) / test.standardError;
+      lp -= 0.5 * z * z;
+      if (withGradient) {
+        const psi = z / test.standardError;
+        this.gradLogBeta[gc] = this.gradLogBeta[gc]! + psi * implied;
+        this.gradLogTheta[gc] = this.gradLogTheta[gc]! + psi * b * sumTheta * theta;
+        this.gradAlpha[c] = this.gradAlpha[c]! + psi * b * sumAlpha;
+        if (hill) this.gradLogShape[c] = this.gradLogShape[c]! + psi * b * sumShape * shape;
+      }
+    }
+    return lp;
+  }
+
+  constrain(q: Float64Array, out: Float64Array): void {
+    writeConstrained(this, q, out);
+  }
+
+  /** Per-cell media means mean_t r(a[t]) at q (the centring of the media regressors). */
+  mediaMeansAt(q: Float64Array, out: Float64Array): void {
+    this.readChannelBlocks(q, undefined);
+    this.computeMedia(false);
+    out.set(this.mediaMean);
+  }
+
+  initialPoint(rng: RandomSource, out: Float64Array): void {
+    const lay = this.layout;
+    for (let i = 0; i < out.length; i++) out[i] = 0.5 * (2 * rng.uniform() - 1);
+    const C = this.constants.channelCount;
+    const setAround = (at: number, count: number, centre: number): void => {
+      if (at < 0) return;
+      for (let i = 0; i < count; i++) out[at + i] = centre + 0.5 * (2 * rng.uniform() - 1);
+    };
+    setAround(lay.tauBrand, C, Math.log(0.3));
+    setAround(lay.tauMarket, C, Math.log(0.3));
+    setAround(lay.tauCell, C, Math.log(0.3));
+    for (let g = 0; g < this.constants.cellCount; g++) {
+      const at = lay.cells + g * lay.cellStride + 2 + 2 * this.constants.seasonalityOrder;
+      out[at] = Math.log(0.5) + 0.5 * (2 * rng.uniform() - 1);
+    }
+    if (lay.nu >= 0) out[lay.nu] = Math.log(10) + 0.5 * (2 * rng.uniform() - 1);
+  }
+
+  /** Values needed by `constrain`: read-only views of the current channel and cell effects. */
+  evaluateEffects(q: Float64Array): {
+    readonly mu: Float64Array;
+    readonly tauBrand: Float64Array;
+    readonly tauMarket: Float64Array;
+    readonly tauCell: Float64Array;
+    readonly alpha: Float64Array;
+    readonly lambda: Float64Array;
+    readonly hillShape: Float64Array;
+    readonly beta: Float64Array;
+    readonly theta: Float64Array;
+    readonly mediaMean: Float64Array;
+  } {
+    this.readChannelBlocks(q, undefined);
+    this.computeMedia(false);
+    return {
+      mu: this.mu,
+      tauBrand: this.tauBrand,
+      tauMarket: this.tauMarket,
+      tauCell: this.tauCell,
+      alpha: this.alpha,
+      lambda: this.lambda,
+      hillShape: this.hillShape,
+      beta: this.beta,
+      theta: this.theta,
+      mediaMean: this.mediaMean,
+    };
+  }
+
+  /** Log density only (no gradient), for tests and checks. */
+  logDensity(q: Float64Array): number {
+    const scratch = new Float64Array(this.dimension);
+    return this.logDensityGradient(q, scratch);
+  }
+}
+
+function standardNormalBlock(q: Float64Array, at: number, count: number, grad: Float64Array | undefined): number {
+  let lp = 0;
+  for (let i = at; i < at + count; i++) {
+    const z = q[i]!;
+    lp -= 0.5 * z * z;
+    if (grad) grad[i] = -z;
+  }
+  return lp;
+}
+
+/** Hill form r = θ·u/(1+u), u = (a/θ)^k: writes [r, dr/da, dr/dθ, dr/dk]. */
+function hillWithDerivatives(a: number, theta: number, shape: number, out: Float64Array): void {
+  if (a <= 0) {
+    out[0] = 0;
+    out[1] = shape === 1 ? 1 : 0;
+    out[2] = 0;
+    out[3] = 0;
+    return;
+  }
+  const ratio = a / theta;
+  const logRatio = Math.log(ratio);
+  const u = Math.exp(shape * logRatio);
+  const onePlusU = 1 + u;
+  const inv2 = 1 / (onePlusU * onePlusU);
+  out[0] = (theta * u) / onePlusU;
+  out[1] = (shape * u * inv2) / ratio;
+  out[2] = u / onePlusU - shape * u * inv2;
+  out[3] = theta * u * logRatio * inv2;
+}
+
+/** Writes the constrained quantities in the order of `portfolioParameterNames`. */
+function writeConstrained(model: PortfolioDensity, q: Float64Array, out: Float64Array): void {
+  const k = model.constants;
+  const lay = model.layout;
+  const C = k.channelCount;
+  const G = k.cellCount;
+  const J = k.seasonalityOrder;
+  const K = k.controlCount;
+  const B = k.brands.length;
+  const M = k.markets.length;
+  const fx = model.evaluateEffects(q);
+  let o = 0;
+  const pooled = lay.structure === "pooled";
+  if (pooled) {
+    for (let c = 0; c < C; c++) out[o++] = fx.mu[c]!;
+    if (lay.tauBrand >= 0) for (let c = 0; c < C; c++) out[o++] = fx.tauBrand[c]!;
+    if (lay.tauMarket >= 0) for (let c = 0; c < C; c++) out[o++] = fx.tauMarket[c]!;
+    for (let c = 0; c < C; c++) out[o++] = fx.tauCell[c]!;
+  }
+  for (let c = 0; c < C; c++) out[o++] = fx.alpha[c]!;
+  for (let c = 0; c < C; c++) out[o++] = fx.lambda[c]!;
+  if (lay.hillShape >= 0) for (let c = 0; c < C; c++) out[o++] = fx.hillShape[c]!;
+  if (!pooled) for (let c = 0; c < C; c++) out[o++] = fx.mu[c]!; // η = log β
+  for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = fx.beta[g * C + c]!;
+  for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = 1 / fx.beta[g * C + c]!;
+  for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = fx.theta[g * C + c]!;
+  if (pooled) {
+    for (let g = 0; g < G; g++) {
+      for (let c = 0; c < C; c++) {
+        let group = fx.mu[c]!;
+        if (lay.zBrand >= 0) group += fx.tauBrand[c]! * q[lay.zBrand + k.cellBrand[g]! * C + c]!;
+        if (lay.zMarket >= 0) group += fx.tauMarket[c]! * q[lay.zMarket + k.cellMarket[g]! * C + c]!;
+        out[o++] = group;
+      }
+    }
+    if (lay.zBrand >= 0) for (let b = 0; b < B; b++) for (let c = 0; c < C; c++) out[o++] = fx.tauBrand[c]! * q[lay.zBrand + b * C + c]!;
+    if (lay.zMarket >= 0) for (let m = 0; m < M; m++) for (let c = 0; c < C; c++) out[o++] = fx.tauMarket[c]! * q[lay.zMarket + m * C + c]!;
+    for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = fx.tauCell[c]! * q[lay.zCell + g * C + c]!;
+  }
+  for (let g = 0; g < G; g++) {
+    const block = lay.cells + g * lay.cellStride;
+    out[o++] = k.outcomeMean[g]! + k.outcomeScale[g]! * q[block]!;
+  }
+  for (let g = 0; g < G; g++) out[o++] = k.outcomeScale[g]! * q[lay.cells + g * lay.cellStride + 1]!;
+  for (let g = 0; g < G; g++) out[o++] = k.outcomeScale[g]! * Math.exp(q[lay.cells + g * lay.cellStride + 2 + 2 * J]!);
+  for (let g = 0; g < G; g++) {
+    let level = k.outcomeMean[g]! + k.outcomeScale[g]! * q[lay.cells + g * lay.cellStride]!;
+    for (let c = 0; c < C; c++) level -= fx.beta[g * C + c]! * fx.mediaMean[g * C + c]!;
+    out[o++] = level;
+  }
+  for (let g = 0; g < G; g++) for (let j = 0; j < J; j++) out[o++] = 0.5 * k.outcomeScale[g]! * q[lay.cells + g * lay.cellStride + 2 + 2 * j]!;
+  for (let g = 0; g < G; g++) for (let j = 0; j < J; j++) out[o++] = 0.5 * k.outcomeScale[g]! * q[lay.cells + g * lay.cellStride + 3 + 2 * j]!;
+  for (let g = 0; g < G; g++) for (let j = 0; j < K; j++) out[o++] = k.outcomeScale[g]! * q[lay.cells + g * lay.cellStride + 3 + 2 * J + j]!;
+  if (lay.nu >= 0) out[o++] = Math.exp(q[lay.nu]!);
+}

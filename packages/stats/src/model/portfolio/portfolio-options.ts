@@ -1,0 +1,99 @@
+import type { SaturationKind } from "../saturation";
+
+/**
+ * A lift test: a controlled experiment on one channel in one cell. Its measured
+ * incremental outcome enters the likelihood as
+ *   measured ~ Normal(model-implied incremental outcome, standardError),
+ * where the model-implied value is Σ over the test weeks of β·r(a) with the observed
+ * spend minus the same with the channel's spend set to zero in the test weeks (the
+ * adstock carries spend from before the window in both, and carry-over inside it).
+ */
+export interface LiftTest {
+  readonly brand: string;
+  readonly market: string;
+  readonly channel: string;
+  /** ISO Monday of the first test week (inclusive). */
+  readonly firstWeek: string;
+  /** ISO Monday of the last test week (inclusive). */
+  readonly lastWeek: string;
+  /** Spend on the channel during the test, as reported by the experiment (must be > 0; kept for reports). */
+  readonly spend: number;
+  /** Measured incremental outcome over the test weeks. */
+  readonly incrementalOutcome: number;
+  /** Standard error of the measured incremental outcome (> 0). */
+  readonly standardError: number;
+}
+
+/** Which levels of the crossed pooling are on; the cell level is always on. */
+export type PoolingLevels = "crossed" | "brand" | "market" | "cell-only";
+
+export type LikelihoodKind = "normal" | "student-t";
+
+/** Plain-data options of the portfolio model; every field is optional and defaults to the reference model. */
+export interface PortfolioModelOptions {
+  /** Maximum adstock lag L (default 8). */
+  readonly maxLag?: number;
+  readonly saturation?: SaturationKind;
+  readonly likelihood?: LikelihoodKind;
+  /** Number of Fourier pairs J (default 2). */
+  readonly seasonalityOrder?: number;
+  /** Plausible low-spend CAC per channel name, read as a 90 % interval (default [5, 2000]). */
+  readonly cacRange?: Readonly<Record<string, readonly [number, number]>>;
+  readonly pooling?: PoolingLevels;
+  /** The last k weeks of every cell are left out of the likelihood and forecast (default 0). */
+  readonly holdoutWeeks?: number;
+  readonly liftTests?: readonly LiftTest[];
+}
+
+export interface ResolvedPortfolioOptions {
+  readonly maxLag: number;
+  readonly saturation: SaturationKind;
+  readonly likelihood: LikelihoodKind;
+  readonly seasonalityOrder: number;
+  /** Per channel, in the data's channel order. */
+  readonly cacRange: readonly (readonly [number, number])[];
+  readonly pooling: PoolingLevels;
+  readonly holdoutWeeks: number;
+  readonly liftTests: readonly LiftTest[];
+}
+
+export const DEFAULT_CAC_RANGE: readonly [number, number] = [5, 2000];
+
+/** Checks the options against the channel list and fills in the defaults; throws a RangeError naming the problem. */
+export function resolvePortfolioOptions(channels: readonly string[], options: PortfolioModelOptions = {}): ResolvedPortfolioOptions {
+  const maxLag = options.maxLag ?? 8;
+  if (!Number.isInteger(maxLag) || maxLag < 1 || maxLag > 52) throw new RangeError(`maxLag must be an integer from 1 to 52, got ${maxLag}`);
+  const saturation = options.saturation ?? "exponential";
+  if (saturation !== "exponential" && saturation !== "hill") throw new RangeError(`saturation must be "exponential" or "hill", got "${String(saturation)}"`);
+  const likelihood = options.likelihood ?? "normal";
+  if (likelihood !== "normal" && likelihood !== "student-t") throw new RangeError(`likelihood must be "normal" or "student-t", got "${String(likelihood)}"`);
+  const seasonalityOrder = options.seasonalityOrder ?? 2;
+  if (!Number.isInteger(seasonalityOrder) || seasonalityOrder < 0 || seasonalityOrder > 10) {
+    throw new RangeError(`seasonalityOrder must be an integer from 0 to 10, got ${seasonalityOrder}`);
+  }
+  const pooling = options.pooling ?? "crossed";
+  if (!["crossed", "brand", "market", "cell-only"].includes(pooling)) {
+    throw new RangeError(`pooling must be "crossed", "brand", "market" or "cell-only", got "${String(pooling)}"`);
+  }
+  const holdoutWeeks = options.holdoutWeeks ?? 0;
+  if (!Number.isInteger(holdoutWeeks) || holdoutWeeks < 0) throw new RangeError(`holdoutWeeks must be a non-negative integer, got ${holdoutWeeks}`);
+  const ranges = options.cacRange ?? {};
+  for (const name of Object.keys(ranges)) {
+    if (!channels.includes(name)) throw new RangeError(`cacRange names channel "${name}", which is not in the data`);
+  }
+  const cacRange = channels.map((channel) => {
+    const range = ranges[channel] ?? DEFAULT_CAC_RANGE;
+    const [lo, hi] = range;
+    if (!(Number.isFinite(lo) && Number.isFinite(hi) && lo > 0 && hi > lo)) {
+      throw new RangeError(`cacRange for "${channel}" must be [lo, hi] with 0 < lo < hi, got [${lo}, ${hi}]`);
+    }
+    return [lo, hi] as const;
+  });
+  return { maxLag, saturation, likelihood, seasonalityOrder, cacRange, pooling, holdoutWeeks, liftTests: options.liftTests ?? [] };
+}
+
+/** Mean and sd of the prior of μ_c = log β from the CAC range [lo, hi] read as a 90 % interval. */
+export function channelEffectPrior(range: readonly [number, number]): { readonly mean: number; readonly sd: number } {
+  const [lo, hi] = range;
+  return { mean: -Math.log(Math.sqrt(lo * hi)), sd: (Math.log(hi) - Math.log(lo)) / 3.29 };
+}
