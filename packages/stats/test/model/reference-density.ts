@@ -114,7 +114,7 @@ export function referenceLogDensity(model: PortfolioDensity, data: PortfolioData
       const cos = Array.from({ length: train }, (_, t) => Math.cos((2 * Math.PI * j * (w0 + t)) / 52.1775));
       const sm = sin.reduce((a, b) => a + b, 0) / train;
       const cm = cos.reduce((a, b) => a + b, 0) / train;
-      for (let t = 0; t < train; t++) mean[t] += gamma * (sin[t]! - sm) + delta * (cos[t]! - cm);
+      for (let t = 0; t < train; t++) mean[t] = mean[t]! + gamma * (sin[t]! - sm) + delta * (cos[t]! - cm);
     }
     data.controls.forEach((name, k) => {
       const coef = value(`controlCoef[${G},${name}]`);
@@ -122,7 +122,7 @@ export function referenceLogDensity(model: PortfolioDensity, data: PortfolioData
       const x = cell.controls[k]!.subarray(0, train);
       const xm = x.reduce((a, b) => a + b, 0) / train;
       const xs = Math.sqrt(x.reduce((a, b) => a + (b - xm) ** 2, 0) / (train - 1)) || 1;
-      for (let t = 0; t < train; t++) mean[t] += (coef * (x[t]! - xm)) / xs;
+      for (let t = 0; t < train; t++) mean[t] = mean[t]! + (coef * (x[t]! - xm)) / xs;
     });
     channels.forEach((ch, c) => {
       const x = cell.spend[c]!;
@@ -134,7 +134,7 @@ export function referenceLogDensity(model: PortfolioDensity, data: PortfolioData
       const k = opts.saturation === "hill" ? shapeOf(g, ch) : 1;
       const r = Array.from({ length: train }, (_, t) => responseOf(adstockAt(x, t, alpha), theta, k));
       const rm = r.reduce((a, b) => a + b, 0) / train;
-      for (let t = 0; t < train; t++) mean[t] += beta * (r[t]! - rm);
+      for (let t = 0; t < train; t++) mean[t] = mean[t]! + beta * (r[t]! - rm);
     });
     for (let t = 0; t < train; t++) {
       const e = y[t]! - mean[t]!;
