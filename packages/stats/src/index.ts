@@ -8,3 +8,33 @@ export { adstockGeometric, adstockWeightSum } from "./model/adstock";
 export { saturationExponential, saturationHill, hillShare, steadyStateResponse } from "./model/saturation";
 export type { SaturationKind } from "./model/saturation";
 export { absoluteWeekOf, mondayOfAbsoluteWeek } from "./model/absolute-week";
+
+// Sampler: seeded generator, NUTS transition, warm-up adaptation, chain loop.
+export { Xoshiro128StarStar } from "./rng/xoshiro128";
+export { createRandomSource, restoreRandomSource } from "./rng/create-random-source";
+export { NutsWorkspace, nutsTransition, createNutsState, createNutsInfo } from "./nuts/nuts-transition";
+export type { NutsState, NutsSettings, NutsInfo } from "./nuts/nuts-transition";
+export { dualAveraging } from "./adaptation/dual-averaging";
+export type { DualAveragingState, DualAveragingSettings } from "./adaptation/dual-averaging";
+export { diagonalMassMatrix } from "./adaptation/mass-matrix";
+export type { MassMatrixState } from "./adaptation/mass-matrix";
+export { warmupSchedule } from "./adaptation/window-schedule";
+export type { WarmupSchedule, SlowWindow } from "./adaptation/window-schedule";
+export { initialStepSize } from "./adaptation/initial-step-size";
+export { sampleChain } from "./sampler/sample-chain";
+export { defaultSamplerSettings, resolveSamplerSettings } from "./sampler/sampler-settings";
+export type { SamplerSettings, ChainProgress, ChainResult, SamplerHooks } from "./sampler/sampler-settings";
+export { buildModel, modelBuilders } from "./models/registry";
+export type { ModelBuilder } from "./models/registry";
+
+// Convergence diagnostics and the run summary.
+export { summariseRun, summariseParameter } from "./diagnostics/summarise-run";
+export type { ParameterSummary, RunDiagnostics, RunSummary, SummariseOptions } from "./diagnostics/summarise-run";
+export { assessTrust, defaultTrustThresholds } from "./diagnostics/trust";
+export type { TrustThresholds } from "./diagnostics/trust";
+export { rhat, rhatBasic } from "./diagnostics/rhat";
+export { essBulk, essTail, essMean, essQuantile } from "./diagnostics/ess";
+export { mcseMean, mcseQuantile } from "./diagnostics/mcse";
+export { ebfmi } from "./diagnostics/ebfmi";
+export { splitChains } from "./diagnostics/split-chains";
+export { rankNormalise } from "./diagnostics/rank-normalise";
