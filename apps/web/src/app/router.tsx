@@ -1,11 +1,12 @@
 import type { QueryClient } from "@tanstack/react-query";
 import type { ComponentType } from "react";
-import { redirect, type LoaderFunction, type LoaderFunctionArgs, type RouteObject } from "react-router-dom";
+import { type LoaderFunction, type LoaderFunctionArgs, type RouteObject } from "react-router-dom";
 import { LoadingState } from "../components/ui/loading-state";
 import { paths, type ScreenKey } from "../config/paths";
 import { currentUserQueryOptions } from "../features/auth/api/get-current-user";
-import { canUseScreen, homeScreenFor } from "../lib/authorization";
+import { canUseScreen } from "../lib/authorization";
 import { AppError, RouteError } from "./route-error";
+import HomeRoute from "./routes/app/home";
 import AppRoot, { clientLoader as appRootLoader } from "./routes/app/root";
 import { NotFound } from "./routes/not-found";
 import SignInRoute, { clientLoader as signInLoader } from "./routes/sign-in";
@@ -72,13 +73,7 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
       ErrorBoundary: AppError,
       HydrateFallback: () => <LoadingState />,
       children: [
-        {
-          index: true,
-          loader: async () => {
-            const user = await queryClient.ensureQueryData(currentUserQueryOptions());
-            return redirect(user ? paths.app[homeScreenFor(user.role)].getHref() : paths.auth.signIn.getHref());
-          },
-        },
+        { index: true, Component: HomeRoute },
         ...(Object.keys(screenModules) as ScreenKey[]).map((screen) => screenRoute(queryClient, screen)),
         { path: "*", Component: NotFound },
       ],

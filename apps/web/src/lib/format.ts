@@ -1,9 +1,11 @@
-const weekFormat = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
+// Fixed three-letter months: the same text in every browser and locale build.
+const months = ["Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"];
 
 /** An ISO week date (the week's Monday, "2024-03-04") as "4 Mar 2024". */
 export function formatWeek(isoDate: string): string {
   const date = new Date(`${isoDate.slice(0, 10)}T00:00:00Z`);
-  return Number.isNaN(date.getTime()) ? isoDate : weekFormat.format(date);
+  if (Number.isNaN(date.getTime())) return isoDate;
+  return `${date.getUTCDate()} ${months[date.getUTCMonth()]} ${date.getUTCFullYear()}`;
 }
 
 export function formatWeekRange(firstWeek: string | null, lastWeek: string | null): string | null {

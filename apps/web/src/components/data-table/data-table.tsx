@@ -75,6 +75,7 @@ export function DataTable<Row>({
         accessorFn: (row: Row) => column.value(row) ?? undefined,
         enableSorting: column.sortable ?? true,
         sortUndefined: "last",
+        sortDescFirst: false,
         sortingFn: "basic",
         cell: (context) => {
           if (column.cell) return column.cell(context.row.original);

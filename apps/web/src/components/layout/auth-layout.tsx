@@ -1,13 +1,15 @@
 import type { ReactNode } from "react";
-import { TributaryMark, Wordmark } from "../brand/wordmark";
+import { ConfluenceArt } from "../brand/confluence-art";
+import { Wordmark } from "../brand/wordmark";
 
 /** The frame around sign-in: the product's name on one side, the form on the other. */
 export function AuthLayout({ title, children }: { title: string; children: ReactNode }) {
   return (
     <div className="grid min-h-screen lg:grid-cols-[minmax(0,5fr)_minmax(0,6fr)]">
       <header className="on-dark relative hidden overflow-hidden bg-ink-900 px-12 py-12 text-ink-100 lg:flex lg:flex-col">
-        <Wordmark tone="dark" />
-        <div className="mt-auto max-w-md">
+        <ConfluenceArt className="pointer-events-none absolute inset-0 h-full w-full" />
+        <Wordmark tone="dark" className="relative" />
+        <div className="relative mt-auto max-w-md rounded-lg bg-ink-900/80 p-1">
           <p className="text-display font-semibold leading-tight text-white">
             What does each channel really cost per new customer?
           </p>
@@ -16,7 +18,6 @@ export function AuthLayout({ title, children }: { title: string; children: React
             it earns most.
           </p>
         </div>
-        <TributaryMark className="pointer-events-none absolute -right-16 -top-10 h-80 w-80 opacity-10" tone="dark" />
       </header>
       <main id="main" className="flex items-center justify-center px-6 py-12">
         <div className="w-full max-w-sm">

@@ -2,25 +2,28 @@ import type { Channel } from "@tributary/contracts";
 
 const seriesColours = 8;
 
+/** The portfolio's channels, each with the chart colour it keeps on every screen. */
 export function ChannelList({ channels }: { channels: Channel[] }) {
   return (
-    <section aria-labelledby="channel-list-title" className="rounded-lg border border-line bg-surface p-4 shadow-card">
-      <h2 id="channel-list-title" className="text-body font-semibold text-ink-900">
+    <section aria-labelledby="channel-list-title" className="flex flex-wrap items-center gap-x-4 gap-y-2">
+      <h2 id="channel-list-title" className="text-small font-semibold text-ink-800">
         Channels
       </h2>
       {channels.length === 0 ? (
-        <p className="mt-2 text-small text-ink-600">No channels are set up for this portfolio yet.</p>
+        <p className="text-small text-ink-600">No channels are set up for this portfolio yet.</p>
       ) : (
-        <ul className="mt-3 space-y-2">
+        <ul className="flex flex-wrap gap-2">
           {channels.map((channel, index) => (
-            <li key={channel.id} className="flex items-center gap-2.5 text-small">
+            <li
+              key={channel.id}
+              className="inline-flex items-center gap-2 rounded-full border border-line bg-surface px-3 py-1 text-small"
+            >
               <span
-                className="h-3 w-3 shrink-0 rounded-sm"
+                className="h-2.5 w-2.5 shrink-0 rounded-full"
                 style={{ background: `var(--color-series-${(index % seriesColours) + 1})` }}
                 aria-hidden="true"
               />
               <span className="font-medium text-ink-900">{channel.name}</span>
-              <span className="text-ink-500">{channel.code}</span>
             </li>
           ))}
         </ul>

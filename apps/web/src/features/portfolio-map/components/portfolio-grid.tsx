@@ -44,13 +44,12 @@ export function PortfolioGrid({ portfolio }: { portfolio: Portfolio }) {
         </caption>
         <thead>
           <tr className="bg-ink-50">
-            <th scope="col" className="w-52 border-b border-line px-4 py-2 text-left font-semibold text-ink-800">
+            <th scope="col" className="w-40 border-b border-line px-4 py-2 text-left font-semibold text-ink-800">
               Brand
             </th>
             {portfolio.markets.map((market) => (
               <th key={market.id} scope="col" className="border-b border-l border-line px-3 py-2 text-left font-semibold text-ink-800">
                 {market.name}
-                <span className="ml-1.5 font-normal text-ink-500">{market.code}</span>
               </th>
             ))}
           </tr>
@@ -63,7 +62,7 @@ export function PortfolioGrid({ portfolio }: { portfolio: Portfolio }) {
                 <span className="block text-caption text-ink-600">
                   {brand.customerValue === null
                     ? "Customer value not set"
-                    : `Customer value ${formatMoney(brand.customerValue, portfolio.currency)}`}
+                    : `${formatMoney(brand.customerValue, portfolio.currency)} per customer`}
                 </span>
               </th>
               {portfolio.markets.map((market) => {
@@ -84,7 +83,8 @@ export function PortfolioGrid({ portfolio }: { portfolio: Portfolio }) {
                   <td key={market.id} className="border-b border-l border-line px-3 py-3 align-top">
                     <span className="block text-body font-semibold tabular-nums text-ink-950">{formatWeeks(cell.weeks)}</span>
                     <span className="block text-caption text-ink-600">
-                      {formatWeek(cell.firstWeek)} – {formatWeek(cell.lastWeek)}
+                      <span className="whitespace-nowrap">{formatWeek(cell.firstWeek)} –</span>{" "}
+                      <span className="whitespace-nowrap">{formatWeek(cell.lastWeek)}</span>
                     </span>
                     <span className="mt-2 block h-1.5 rounded-full bg-ink-100" aria-hidden="true">
                       <span

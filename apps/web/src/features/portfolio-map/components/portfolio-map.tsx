@@ -52,31 +52,27 @@ export function PortfolioMap({ portfolio, scopedToMarkets }: PortfolioMapProps) 
             : "The portfolio has no brands or markets yet. An admin sets them up."}
         </EmptyState>
       ) : (
-        <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_16rem]">
-          <div className="min-w-0 space-y-6">
-            {!hasData ? (
-              <EmptyState title="No data uploaded yet">
-                Once an analyst saves a dataset version in Data intake, each cell shows how many weeks of data it holds.
-              </EmptyState>
-            ) : null}
-            <PortfolioGrid portfolio={portfolio} />
-            <EmptyState title="No published fit yet">
-              Cost per new customer with its interval, the chance each cell is profitable and how far pooling moved
-              the estimate will appear in these cells once an analyst publishes a fit.
+        <div className="space-y-6">
+          <ChannelList channels={portfolio.channels} />
+          {!hasData ? (
+            <EmptyState title="No data uploaded yet">
+              Once an analyst saves a dataset version in Data intake, each cell shows how many weeks of data it holds.
             </EmptyState>
-            <DataTable
-              caption="Cells"
-              rows={rows}
-              columns={cellColumns}
-              rowKey={(row) => row.id}
-              csvFileName="portfolio-cells.csv"
-              initialSort={{ id: "brand" }}
-              emptyMessage="No cells in this portfolio yet."
-            />
-          </div>
-          <div>
-            <ChannelList channels={portfolio.channels} />
-          </div>
+          ) : null}
+          <PortfolioGrid portfolio={portfolio} />
+          <EmptyState title="No published fit yet" compact>
+            Cost per new customer with its interval, the chance each cell is profitable and how far pooling moved the
+            estimate will appear in these cells once an analyst publishes a fit.
+          </EmptyState>
+          <DataTable
+            caption="Cells"
+            rows={rows}
+            columns={cellColumns}
+            rowKey={(row) => row.id}
+            csvFileName="portfolio-cells.csv"
+            initialSort={{ id: "brand" }}
+            emptyMessage="No cells in this portfolio yet."
+          />
         </div>
       )}
     </>

@@ -1,0 +1,99 @@
+import { describe, expect, it, vi } from "vitest";
+import { z } from "zod";
+import { ApiError, createApiClient } from "../api-client";
+
+const thing = z.object({ id: z.string(), count: z.number() });
+
+function respond(status: number, body: unknown, contentType = "application/json") {
+  return vi.fn(async () => new Response(typeof body === "string" ? body : JSON.stringify(body), { status, headers: { "Content-Type": contentType } }));
+}
+
+async function caught(promise: Promise<unknown>): Promise<ApiError> {
+  try {
+    await promise;
+  } catch (error) {
+    if (error instanceof ApiError) return error;
+    throw error;
+  }
+  throw new Error("expected the request to fail");
+}
+
+describe("api client", () => {
+  it("returns the parsed body and sends the session cookie with JSON", async () => {
+    const fetch = respond(200, { id: "a", count: 3 });
+    const api = createApiClient({ fetch });
+    await expect(api.post("/api/things", thing, { name: "x" })).resolves.toEqual({ id: "a", count: 3 });
+    const [url, init] = fetch.mock.calls[0] as unknown as [string, RequestInit];
+    expect(url).toBe("/api/things");
+    expect(init.method).toBe("POST");
+    expect(init.credentials).toBe("same-origin");
+    expect(init.body).toBe(JSON.stringify({ name: "x" }));
+    expect((init.headers as Record<string, string>)["Content-Type"]).toBe("application/json");
+  });
+
+  it("turns the JSON error shape into a typed ApiError with its issues", async () => {
+    const body = {
+      error: {
+        code: "invalid_input",
+        message: "Check the highlighted fields.",
+        issues: [{ path: "email", message: "Enter a valid e-mail address" }],
+      },
+    };
+    const api = createApiClient({ fetch: respond(400, body) });
+    const error = await caught(api.post("/api/things", thing, {}));
+    expect(error.status).toBe(400);
+    expect(error.code).toBe("invalid_input");
+    expect(error.message).toBe("Check the highlighted fields.");
+    expect(error.issues).toEqual([{ path: "email", message: "Enter a valid e-mail address" }]);
+  });
+
+  it("falls back to the status when the error body is not our JSON shape", async () => {
+    const api = createApiClient({ fetch: respond(502, "<html>Bad gateway</html>", "text/html") });
+    const error = await caught(api.get("/api/things", thing));
+    expect(error.status).toBe(502);
+    expect(error.code).toBe("internal");
+    expect(error.message).toMatch(/HTTP 502/);
+
+    const forbidden = await caught(createApiClient({ fetch: respond(403, { unexpected: true }) }).get("/api/x", thing));
+    expect(forbidden.code).toBe("forbidden");
+  });
+
+  it("reports a network failure as an ApiError with status 0", async () => {
+    const api = createApiClient({ fetch: vi.fn(async () => Promise.reject(new TypeError("Failed to fetch"))) });
+    const error = await caught(api.get("/api/things", thing));
+    expect(error.status).toBe(0);
+    expect(error.code).toBe("network");
+    expect(error.message).toMatch(/could not reach the server/i);
+  });
+
+  it("rejects a success body of the wrong shape instead of passing it on", async () => {
+    const api = createApiClient({ fetch: respond(200, { id: 7 }) });
+    const error = await caught(api.get("/api/things", thing));
+    expect(error.code).toBe("unexpected_response");
+  });
+
+  it("calls the sign-in redirect on 401 unless the call expects a 401", async () => {
+    const body = { error: { code: "unauthenticated", message: "Your session has ended." } };
+    const onUnauthenticated = vi.fn();
+    const api = createApiClient({ fetch: respond(401, body), onUnauthenticated });
+
+    const error = await caught(api.get("/api/portfolio", thing));
+    expect(error.code).toBe("unauthenticated");
+    expect(onUnauthenticated).toHaveBeenCalledTimes(1);
+
+    await caught(api.get("/api/auth/me", thing, { redirectOnUnauthenticated: false }));
+    expect(onUnauthenticated).toHaveBeenCalledTimes(1);
+  });
+
+  it("does not redirect on other errors", async () => {
+    const onUnauthenticated = vi.fn();
+    const api = createApiClient({ fetch: respond(403, { error: { code: "forbidden", message: "No." } }), onUnauthenticated });
+    await caught(api.get("/api/x", thing));
+    expect(onUnauthenticated).not.toHaveBeenCalled();
+  });
+
+  it("returns nothing for 204 and for calls without a response schema", async () => {
+    const api = createApiClient({ fetch: vi.fn(async () => new Response(null, { status: 204 })) });
+    await expect(api.post("/api/auth/sign-out", null)).resolves.toBeUndefined();
+  });
+});
