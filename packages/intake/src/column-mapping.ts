@@ -67,6 +67,7 @@ function looksNumeric(index: number, rows: readonly (readonly string[])[]): bool
 export function guessColumnMapping(header: readonly string[], rows?: readonly (readonly string[])[]): ColumnMappingGuess {
   const notes: MappingNote[] = [];
   const unused = new Set(header);
+  const setAside = new Set<string>();
   const take = (column: string | null): string | null => {
     if (column !== null) unused.delete(column);
     return column;
@@ -94,6 +95,7 @@ export function guessColumnMapping(header: readonly string[], rows?: readonly (r
       const clash = channels.find((c) => c.channel === channel);
       if (clash) {
         notes.push({ role: "ignored", message: `Columns "${clash.column}" and "${column}" both look like spend on ${channel}; "${column}" is ignored.` });
+        setAside.add(column);
       } else {
         channels.push({ column, channel });
       }
@@ -123,7 +125,7 @@ export function guessColumnMapping(header: readonly string[], rows?: readonly (r
     notes.push({ role: "channels", message: 'No column looks like spend; map at least one spend column to a channel, or name the columns "spend_<channel>".' });
   }
 
-  return { week, brand, market, outcome, channels, controls, ignored: header.filter((column) => unused.has(column)), notes };
+  return { week, brand, market, outcome, channels, controls, ignored: header.filter((column) => unused.has(column) || setAside.has(column)), notes };
 }
 
 /**

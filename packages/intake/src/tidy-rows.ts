@@ -138,8 +138,9 @@ export function analyseTidyRows(
   const cells = new Map<string, CellBuilder>();
   const brandSpellings = new Map<string, Spellings>();
   const marketSpellings = new Map<string, Spellings>();
-  const weekdayCounts = new Array<number>(7).fill(0);
   let outcomeTotal = 0;
+  /** Rows whose week, brand or market could not be read, so they belong to no cell. */
+  let unplacedRows = 0;
   const spendTotals = new Float64Array(C);
 
   /** Reads a numeric cell, reporting any problem; NaN when unusable. */
@@ -208,6 +209,26 @@ export function analyseTidyRows(
     return key;
   };
 
+  // When every date falls on the same other weekday, say so once, before the row-by-row list.
+  const weekdayCounts = new Int32Array(7);
+  for (const row of rows) {
+    const parsedDay = isoDateToDayNumber((row[weekIndex] ?? "").trim());
+    if (parsedDay === null) continue;
+    const weekday = weekdayOfDayNumber(parsedDay);
+    weekdayCounts[weekday] = (weekdayCounts[weekday] ?? 0) + 1;
+  }
+  const parsedDates = weekdayCounts.reduce((a, b) => a + b, 0);
+  for (let weekday = 1; weekday < 7; weekday++) {
+    if (parsedDates > 1 && weekdayCounts[weekday] === parsedDates) {
+      issues.error(
+        "date_not_monday",
+        null,
+        mapping.week,
+        `Every date in "${mapping.week}" is a ${weekdayNames[weekday]}. Tributary names each week by its Monday: shift the dates to the Monday that starts each week.`,
+      );
+    }
+  }
+
   for (let i = 0; i < rows.length; i++) {
     const row = rows[i] ?? [];
     const rowNumber = options.rowNumbers?.[i] ?? i + 2;
@@ -229,7 +250,6 @@ export function analyseTidyRows(
         keyOk = false;
       } else {
         const weekday = weekdayOfDayNumber(parsedDay);
-        weekdayCounts[weekday] = (weekdayCounts[weekday] ?? 0) + 1;
         // A stray non-Monday is still placed in its ISO week so it does not also show up as a gap.
         day = parsedDay - weekday;
         if (weekday !== 0) {
@@ -263,7 +283,10 @@ export function analyseTidyRows(
       if (Number.isNaN(value)) valuesOk = false;
     }
 
-    if (!keyOk || brandKey === null || marketKey === null) continue;
+    if (!keyOk || brandKey === null || marketKey === null) {
+      unplacedRows++;
+      continue;
+    }
     const cellKey = `${brandKey}\u0000${marketKey}`;
     let cell = cells.get(cellKey);
     if (!cell) {
@@ -315,18 +338,10 @@ export function analyseTidyRows(
   const brandNames = chooseSpelling(brandSpellings, "brand");
   const marketNames = chooseSpelling(marketSpellings, "market");
 
-  const parsedDates = weekdayCounts.reduce((a, b) => a + b, 0);
-  for (let weekday = 1; weekday < 7; weekday++) {
-    if (parsedDates > 1 && weekdayCounts[weekday] === parsedDates) {
-      issues.error(
-        "date_not_monday",
-        null,
-        mapping.week,
-        `Every date in "${mapping.week}" is a ${weekdayNames[weekday]}. Tributary names each week by its Monday: shift the dates to the Monday that starts each week.`,
-      );
-    }
-  }
-
+  const unplacedNote =
+    unplacedRows > 0
+      ? ` (${plural(unplacedRows, "row")} could not be placed in a cell because of the week, brand or market errors above; fixing them may settle this)`
+      : "";
   const builtCells: TidyCell[] = [];
   const cellSummaries: CellSummary[] = [];
   const sortedCells = [...cells.values()]
@@ -369,12 +384,12 @@ export function analyseTidyRows(
         "week_gap",
         rowAfterFirstGap,
         mapping.week,
-        `${label} has no rows for ${plural(missing.length, "week")} between its first and last week: ${listWords(listed)}${more}. Every week from a cell's first to its last needs a row (enter 0 for weeks without spend).`,
+        `${label} has no rows for ${plural(missing.length, "week")} between its first and last week: ${listWords(listed)}${more}. Every week from a cell's first to its last needs a row (enter 0 for weeks without spend)${unplacedNote}.`,
       );
     }
 
     if (cellRows.length < minWeeks) {
-      issues.error("cell_too_short", null, null, `${label} has only ${plural(cellRows.length, "week")} of data; at least ${minWeeks} are needed to fit a cell.`);
+      issues.error("cell_too_short", null, null, `${label} has only ${plural(cellRows.length, "week")} of data; at least ${minWeeks} are needed to fit a cell${unplacedNote}.`);
     } else if (cellRows.length < shortCellWeeks) {
       issues.warning(
         "cell_short",
