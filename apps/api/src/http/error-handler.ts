@@ -42,7 +42,7 @@ export function safeErrorForLog(err: unknown): Record<string, unknown> {
 }
 
 export const apiNotFound: RequestHandler = (req, _res, next) => {
-  next(new NotFound(`Nothing at ${req.method} ${req.path}`));
+  next(new NotFound(`Nothing at ${req.method} ${req.originalUrl.split("?")[0]}`));
 };
 
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {

@@ -1,0 +1,41 @@
+// Starts Tributary: opens (or creates) the database, seeds the demo into an empty one,
+// serves the API and the built web app. Settings come from the environment (README).
+import { existsSync } from "node:fs";
+import { join, resolve } from "node:path";
+import { createApp } from "./app";
+import { configFromEnv, repoRoot } from "./config";
+import { closeDatabase, createDatabase } from "./db/client";
+import { seedDemo } from "./demo/seed-demo";
+
+async function main(): Promise<void> {
+  const port = Number(process.env.PORT || 3000);
+  if (!Number.isInteger(port) || port < 0 || port > 65_535) throw new Error(`PORT must be a port number, got "${process.env.PORT}"`);
+  const dataDir = resolve(process.env.DATA_DIR || join(repoRoot, ".data", "tributary"));
+  const webDist = join(repoRoot, "apps", "web", "dist");
+  const webDistDir = existsSync(join(webDist, "index.html")) ? webDist : null;
+  const config = configFromEnv(process.env, webDistDir);
+
+  const db = await createDatabase({ dataDir });
+  const seed = await seedDemo(db);
+  if (seed.seeded) console.log(`Created the demo workspace in ${dataDir}`);
+  if (!webDistDir) console.warn(`The web app is not built (no ${webDist}/index.html): run \`pnpm build\`. Serving the API only.`);
+
+  const app = createApp({ db, config });
+  const server = app.listen(port, () => {
+    const address = server.address();
+    const actualPort = typeof address === "object" && address ? address.port : port;
+    console.log(`Tributary is running at http://localhost:${actualPort}`);
+  });
+
+  const shutdown = () => {
+    server.close(() => void closeDatabase(db).finally(() => process.exit(0)));
+    setTimeout(() => process.exit(1), 5_000).unref();
+  };
+  process.once("SIGINT", shutdown);
+  process.once("SIGTERM", shutdown);
+}
+
+main().catch((error: unknown) => {
+  console.error(error instanceof Error ? error.message : error);
+  process.exit(1);
+});

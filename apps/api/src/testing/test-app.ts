@@ -1,0 +1,47 @@
+// Test helpers: an app over a fresh in-memory database holding the demo workspace.
+import request from "supertest";
+import type { Express } from "express";
+import { createApp } from "../app";
+import type { AppConfig } from "../config";
+import { closeDatabase, createDatabase, type Database } from "../db/client";
+import { seedDemo } from "../demo/seed-demo";
+import type { DemoUser } from "../demo/users";
+
+export interface TestApp {
+  readonly app: Express;
+  readonly db: Database;
+  close(): Promise<void>;
+}
+
+export async function demoTestApp(config: Partial<AppConfig> = {}, db?: Database): Promise<TestApp> {
+  const database = db ?? (await createDatabase());
+  if (!db) {
+    const seed = await seedDemo(database);
+    if (!seed.seeded) throw new Error(`demo seed failed: ${seed.reason}`);
+  }
+  const app = createApp({ db: database, config: { logLevel: "silent", ...config } });
+  return { app, db: database, close: () => closeDatabase(database) };
+}
+
+/** A supertest agent that keeps cookies, signed in as the given demo user. */
+export async function signedInAgent(app: Express, user: Pick<DemoUser, "email" | "password">) {
+  const agent = request.agent(app);
+  const response = await agent.post("/api/auth/sign-in").send({ email: user.email, password: user.password });
+  if (response.status !== 200) throw new Error(`sign-in as ${user.email} failed: ${response.status} ${JSON.stringify(response.body)}`);
+  return agent;
+}
+
+/** The Set-Cookie header for the session cookie, if the response set one. */
+export function sessionSetCookie(response: { headers: Record<string, unknown> }): string | undefined {
+  const header = response.headers["set-cookie"];
+  const list = Array.isArray(header) ? (header as string[]) : typeof header === "string" ? [header] : [];
+  return list.find((cookie) => cookie.startsWith("tributary_session="));
+}
+
+/** Signs in without an agent: the session cookie ("name=value") and the session id. */
+export async function signInCookie(app: Express, user: Pick<DemoUser, "email" | "password">) {
+  const response = await request(app).post("/api/auth/sign-in").send({ email: user.email, password: user.password });
+  const cookie = sessionSetCookie(response)?.split(";")[0];
+  if (response.status !== 200 || !cookie) throw new Error(`sign-in as ${user.email} failed: ${response.status}`);
+  return { cookie, sessionId: cookie.slice(cookie.indexOf("=") + 1) };
+}
