@@ -1,9 +1,9 @@
 import type { DensityModel } from "../model/density-model";
 import type { RandomSource } from "../rng/random-source";
-import { kineticEnergy, sampleMomentum, velocity } from "./metric";
-import { createPhasePoint, type PhasePoint } from "./phase-point";
-import { copyProposal, createProposal, logSumExp, type Proposal } from "./proposal";
-import { keepsGoing } from "./termination";
+import { sampleMomentum } from "./metric";
+import { copyPhasePoint, createPhasePoint, type PhasePoint } from "./phase-point";
+import { createProposal, logSumExp, takeProposal, type Proposal } from "./proposal";
+import { mergeKeepsGoing } from "./termination";
 import { TrajectoryBuilder } from "./trajectory";
 
 /** Where a chain is: position on the unconstrained scale, its log density and gradient. */
@@ -110,23 +110,26 @@ export function nutsTransition(
   forwardEnd.grad.set(state.gradient);
   forwardEnd.logDensity = state.logDensity;
   sampleMomentum(rng, inverseMetric, forwardEnd.p);
-  backwardEnd.q.set(forwardEnd.q);
-  backwardEnd.p.set(forwardEnd.p);
-  backwardEnd.grad.set(forwardEnd.grad);
-  backwardEnd.logDensity = forwardEnd.logDensity;
+  let twiceKinetic = 0;
+  for (let i = 0; i < forwardEnd.p.length; i++) {
+    const v = inverseMetric[i]! * forwardEnd.p[i]!;
+    forwardEnd.v[i] = v;
+    twiceKinetic += v * forwardEnd.p[i]!;
+  }
+  forwardEnd.kinetic = 0.5 * twiceKinetic;
+  copyPhasePoint(forwardEnd, backwardEnd);
 
-  const kinetic0 = kineticEnergy(forwardEnd.p, inverseMetric);
-  const energy0 = kinetic0 - state.logDensity;
+  const energy0 = forwardEnd.kinetic - state.logDensity;
   selected.q.set(state.position);
   selected.grad.set(state.gradient);
   selected.logDensity = state.logDensity;
-  selected.kinetic = kinetic0;
+  selected.kinetic = forwardEnd.kinetic;
 
   rho.set(forwardEnd.p);
   workspace.pForward.set(forwardEnd.p);
   workspace.pBackward.set(forwardEnd.p);
-  velocity(forwardEnd.p, inverseMetric, workspace.vForward);
-  workspace.vBackward.set(workspace.vForward);
+  workspace.vForward.set(forwardEnd.v);
+  workspace.vBackward.set(forwardEnd.v);
 
   builder.begin(rng, inverseMetric, stepSize, energy0, settings.maxEnergyError ?? 1000);
   let logSumWeight = 0;
@@ -142,18 +145,18 @@ export function nutsTransition(
     // Biased progressive sampling towards the new subtree (Betancourt 2017, §A.3.2).
     const logWeightNew = builder.subtreeLogWeight;
     if (logWeightNew > logSumWeight || rng.uniform() < Math.exp(logWeightNew - logSumWeight)) {
-      copyProposal(proposalNew, selected);
+      takeProposal(proposalNew, selected);
     }
     logSumWeight = logSumExp(logSumWeight, logWeightNew);
 
     const pNear = forward ? workspace.pForward : workspace.pBackward;
     const vNear = forward ? workspace.vForward : workspace.vBackward;
     const vFar = forward ? workspace.vBackward : workspace.vForward;
-    const keepGoing =
-      keepsGoing(vFar, vNewEnd, rho, rhoNew) &&
-      keepsGoing(vFar, vNewBegin, rho, pNewBegin) &&
-      keepsGoing(vNear, vNewEnd, rhoNew, pNear);
-    for (let i = 0; i < rho.length; i++) rho[i] = rho[i]! + rhoNew[i]!;
+    // Old trajectory and new subtree as two adjacent halves, ordered along the direction of travel
+    // for forward extensions and against it for backward ones (the checks are symmetric).
+    const keepGoing = forward
+      ? mergeKeepsGoing(rho, rhoNew, rho, vFar, vNewEnd, pNear, vNear, pNewBegin, vNewBegin, true)
+      : mergeKeepsGoing(rhoNew, rho, rho, vNewEnd, vFar, pNewBegin, vNewBegin, pNear, vNear, true);
     pNear.set(pNewEnd);
     vNear.set(vNewEnd);
     if (!keepGoing) break;

@@ -2,8 +2,8 @@ import type { PhasePoint } from "./phase-point";
 
 /** A candidate draw: position, gradient, log density and the kinetic energy it had. */
 export interface Proposal {
-  readonly q: Float64Array;
-  readonly grad: Float64Array;
+  q: Float64Array;
+  grad: Float64Array;
   logDensity: number;
   kinetic: number;
 }
@@ -12,16 +12,21 @@ export function createProposal(dimension: number): Proposal {
   return { q: new Float64Array(dimension), grad: new Float64Array(dimension), logDensity: Number.NEGATIVE_INFINITY, kinetic: 0 };
 }
 
-export function proposeFromPoint(z: PhasePoint, kinetic: number, out: Proposal): void {
+export function proposeFromPoint(z: PhasePoint, out: Proposal): void {
   out.q.set(z.q);
   out.grad.set(z.grad);
   out.logDensity = z.logDensity;
-  out.kinetic = kinetic;
+  out.kinetic = z.kinetic;
 }
 
-export function copyProposal(from: Proposal, to: Proposal): void {
-  to.q.set(from.q);
-  to.grad.set(from.grad);
+/** Makes `to` hold `from`'s draw by exchanging buffers (O(1)); `from` is left with stale contents. */
+export function takeProposal(from: Proposal, to: Proposal): void {
+  const q = to.q;
+  const grad = to.grad;
+  to.q = from.q;
+  to.grad = from.grad;
+  from.q = q;
+  from.grad = grad;
   to.logDensity = from.logDensity;
   to.kinetic = from.kinetic;
 }

@@ -1,10 +1,9 @@
 import type { DensityModel } from "../model/density-model";
 import type { RandomSource } from "../rng/random-source";
 import { leapfrog } from "./integrator";
-import { kineticEnergy, velocity } from "./metric";
 import type { PhasePoint } from "./phase-point";
-import { copyProposal, createProposal, logSumExp, proposeFromPoint, type Proposal } from "./proposal";
-import { keepsGoing } from "./termination";
+import { createProposal, logSumExp, proposeFromPoint, takeProposal, type Proposal } from "./proposal";
+import { mergeKeepsGoing } from "./termination";
 
 /** Buffers of one recursion level; a subtree of depth d uses level d (one frame per depth). */
 interface SubtreeFrame {
@@ -28,7 +27,7 @@ export class TrajectoryBuilder {
   private readonly frames: SubtreeFrame[] = [];
 
   // Per-transition context, set by `begin`.
-  private model: DensityModel;
+  private readonly model: DensityModel;
   private rng: RandomSource | undefined;
   private inverseMetric: Float64Array;
   private stepSize = 0;
@@ -97,19 +96,18 @@ export class TrajectoryBuilder {
     if (depth === 0) {
       leapfrog(this.model, z, this.inverseMetric, sign * this.stepSize);
       this.leapfrogSteps++;
-      const kinetic = kineticEnergy(z.p, this.inverseMetric);
-      let energy = kinetic - z.logDensity;
+      let energy = z.kinetic - z.logDensity;
       if (Number.isNaN(energy)) energy = Number.POSITIVE_INFINITY;
       if (energy - this.initialEnergy > this.maxEnergyError) this.divergent = true;
       const logWeight = this.initialEnergy - energy;
       this.subtreeLogWeight = logWeight;
       this.sumAcceptProbability += logWeight > 0 ? 1 : Math.exp(logWeight);
-      proposeFromPoint(z, kinetic, proposal);
+      proposeFromPoint(z, proposal);
       rho.set(z.p);
       pBegin.set(z.p);
       pEnd.set(z.p);
-      velocity(z.p, this.inverseMetric, vBegin);
-      vEnd.set(vBegin);
+      vBegin.set(z.v);
+      vEnd.set(z.v);
       return !this.divergent;
     }
 
@@ -125,16 +123,20 @@ export class TrajectoryBuilder {
 
     // Multinomial choice between the two halves' proposals (Betancourt 2017, §A.3.2).
     if (logWeightFinal > logWeight || this.rng!.uniform() < Math.exp(logWeightFinal - logWeight)) {
-      copyProposal(frame.proposalFinal, proposal);
+      takeProposal(frame.proposalFinal, proposal);
     }
 
-    const { rhoInit, rhoFinal } = frame;
-    for (let i = 0; i < rho.length; i++) rho[i] = rhoInit[i]! + rhoFinal[i]!;
-
-    return (
-      keepsGoing(vBegin, vEnd, rho) &&
-      keepsGoing(vBegin, frame.vFinalBegin, rhoInit, frame.pFinalBegin) &&
-      keepsGoing(frame.vInitEnd, vEnd, rhoFinal, frame.pInitEnd)
+    return mergeKeepsGoing(
+      frame.rhoInit,
+      frame.rhoFinal,
+      rho,
+      vBegin,
+      vEnd,
+      frame.pInitEnd,
+      frame.vInitEnd,
+      frame.pFinalBegin,
+      frame.vFinalBegin,
+      depth > 1,
     );
   }
 }
