@@ -155,7 +155,7 @@ export function DataTable<Row>({
                         <button
                           type="button"
                           onClick={header.column.getToggleSortingHandler()}
-                          className={`inline-flex items-center gap-1.5 rounded-sm hover:text-stream-700 ${alignEnd ? "flex-row-reverse" : ""}`}
+                          className={`inline-flex items-center gap-1.5 rounded-sm align-middle hover:text-stream-700 ${alignEnd ? "flex-row-reverse" : ""}`}
                         >
                           {flexRender(header.column.columnDef.header, header.getContext())}
                           <SortMark direction={sorted} />

@@ -63,7 +63,9 @@ export function AppShell({ user, navigation, homeHref, onSignOut, signingOut = f
           </nav>
           <section aria-label="Your account" className="border-t border-ink-700 px-5 py-4">
             <p className="truncate text-small font-semibold text-white">{user.name}</p>
-            <p className="truncate text-caption text-ink-300">{user.email}</p>
+            <p className="truncate text-caption text-ink-300" title={user.email}>
+              {user.email}
+            </p>
             <p className="mt-2 inline-flex rounded-sm bg-ink-800 px-2 py-0.5 text-caption font-medium text-silt-300">
               {user.roleLabel}
             </p>

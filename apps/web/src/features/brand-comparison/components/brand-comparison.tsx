@@ -12,7 +12,7 @@ const outline = [
 export function BrandComparison({ scopedToMarkets }: { scopedToMarkets: boolean }) {
   return (
     <>
-      <PageHeader title="Brand comparison" description="Channels side by side across brands: which channel costs what per new customer, in each brand." />
+      <PageHeader title="Brand comparison" description="What each channel costs per new customer in each brand, side by side." />
       {scopedToMarkets ? (
         <p className="mb-4 text-small text-ink-700">You will see your own markets only.</p>
       ) : null}
