@@ -38,3 +38,9 @@ export { mcseMean, mcseQuantile } from "./diagnostics/mcse";
 export { ebfmi } from "./diagnostics/ebfmi";
 export { splitChains } from "./diagnostics/split-chains";
 export { rankNormalise } from "./diagnostics/rank-normalise";
+
+// Running chains in workers (environment-neutral parts; the Node pool is in "@tributary/stats/node").
+export { samplerEndpoint, createStopFlag } from "./parallel/sampler-endpoint";
+export type { SamplerEndpoint } from "./parallel/sampler-endpoint";
+export { sampleChainsOnEndpoints, emptyCancelledChain } from "./parallel/endpoint-pool";
+export type { ChainEndpoint, EndpointPoolHooks } from "./parallel/endpoint-pool";
