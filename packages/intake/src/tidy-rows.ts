@@ -209,10 +209,21 @@ export function analyseTidyRows(
     return key;
   };
 
+  // Weeks repeat across cells: parse each distinct date text once.
+  const dayCache = new Map<string, number | null>();
+  const dayOf = (text: string): number | null => {
+    let day = dayCache.get(text);
+    if (day === undefined) {
+      day = isoDateToDayNumber(text);
+      dayCache.set(text, day);
+    }
+    return day;
+  };
+
   // When every date falls on the same other weekday, say so once, before the row-by-row list.
   const weekdayCounts = new Int32Array(7);
   for (const row of rows) {
-    const parsedDay = isoDateToDayNumber((row[weekIndex] ?? "").trim());
+    const parsedDay = dayOf((row[weekIndex] ?? "").trim());
     if (parsedDay === null) continue;
     const weekday = weekdayOfDayNumber(parsedDay);
     weekdayCounts[weekday] = (weekdayCounts[weekday] ?? 0) + 1;
@@ -244,7 +255,7 @@ export function analyseTidyRows(
       issues.error("value_missing", rowNumber, mapping.week, `Row ${rowNumber}: the week is empty.`);
       keyOk = false;
     } else {
-      const parsedDay = isoDateToDayNumber(weekRaw);
+      const parsedDay = dayOf(weekRaw);
       if (parsedDay === null) {
         issues.error("date_invalid", rowNumber, mapping.week, `Row ${rowNumber}: the week ${quoteValue(weekRaw)} ${dateHint(weekRaw)}.`);
         keyOk = false;
