@@ -55,6 +55,11 @@ export function createApp(options: CreateAppOptions): Express {
   app.use(
     pinoHttp({
       logger,
+      // Method, path and status only: no headers, cookies or bodies in the log.
+      serializers: {
+        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url.split("?")[0] }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
       genReqId: (_req, res) => {
         const id = randomUUID();
         res.setHeader("X-Request-Id", id);
