@@ -124,7 +124,7 @@ export function DataTable<Row>({
                 type="search"
                 value={filter}
                 onChange={(event) => setFilter(event.target.value)}
-                className="w-48 rounded-md border border-line-strong bg-surface px-2.5 py-1.5 text-small text-ink-900 placeholder:text-ink-500"
+                className="w-48 rounded-md border border-field bg-surface px-2.5 py-1.5 text-small text-ink-900 placeholder:text-ink-500"
                 placeholder="Type to filter"
               />
             </div>

@@ -9,7 +9,7 @@ export function AuthLayout({ title, children }: { title: string; children: React
       <header className="on-dark relative hidden overflow-hidden bg-ink-900 px-12 py-12 text-ink-100 lg:flex lg:flex-col">
         <ConfluenceArt className="pointer-events-none absolute inset-0 h-full w-full" />
         <Wordmark tone="dark" className="relative" />
-        <div className="relative mt-auto max-w-md rounded-lg bg-ink-900/80 p-1">
+        <div className="relative mt-auto max-w-md">
           <p className="text-display font-semibold leading-tight text-white">
             What does each channel really cost per new customer?
           </p>

@@ -4,7 +4,7 @@ type Variant = "primary" | "secondary" | "quiet";
 
 const variants: Record<Variant, string> = {
   primary: "bg-stream-700 text-white hover:bg-stream-800 disabled:bg-ink-400",
-  secondary: "bg-surface text-ink-900 border border-line-strong hover:bg-ink-50 disabled:text-ink-500",
+  secondary: "bg-surface text-ink-900 border border-field hover:bg-ink-50 disabled:text-ink-500",
   quiet: "text-stream-700 hover:bg-stream-50 disabled:text-ink-500",
 };
 

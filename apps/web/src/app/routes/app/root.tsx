@@ -1,6 +1,6 @@
 import { roleLabels, type CurrentUser } from "@tributary/contracts";
 import { useQuery, type QueryClient } from "@tanstack/react-query";
-import { Suspense, useEffect, useRef } from "react";
+import { Suspense, useEffect } from "react";
 import { Navigate, Outlet, redirect, useLocation, useNavigate, useNavigation, type LoaderFunctionArgs } from "react-router-dom";
 import { AppShell } from "../../../components/layout/app-shell";
 import { LoadingState } from "../../../components/ui/loading-state";
@@ -38,14 +38,12 @@ function SignedInApp({ user }: { user: CurrentUser }) {
   const signOut = useSignOut({ onSuccess: () => navigate(paths.auth.signIn.getHref(), { replace: true }) });
   const scopeLabel = useMarketScopeLabel(user);
 
-  // Move focus to the new screen so keyboard and screen-reader users start at its top.
-  const firstRender = useRef(true);
+  // Move focus to the new screen so keyboard and screen-reader users start at its top;
+  // a fresh page load (key "default") keeps the browser's own starting point.
+  const freshLoad = location.key === "default";
   useEffect(() => {
-    if (firstRender.current) {
-      firstRender.current = false;
-      return;
-    }
-    document.getElementById("main")?.focus();
+    if (!freshLoad) document.getElementById("main")?.focus();
+    // Only a change of screen moves focus; search-parameter changes (filters) must not.
   }, [location.pathname]);
 
   return (

@@ -59,7 +59,7 @@ export function SignInForm({ onSuccess }: SignInFormProps) {
           autoComplete="username"
           aria-invalid={errors.email ? true : undefined}
           aria-describedby={errors.email ? "sign-in-email-error" : undefined}
-          className={`${fieldClass} ${errors.email ? "border-alert-700" : "border-line-strong"}`}
+          className={`${fieldClass} ${errors.email ? "border-alert-700" : "border-field"}`}
           {...form.register("email")}
         />
         {errors.email ? (
@@ -78,7 +78,7 @@ export function SignInForm({ onSuccess }: SignInFormProps) {
           autoComplete="current-password"
           aria-invalid={errors.password ? true : undefined}
           aria-describedby={errors.password ? "sign-in-password-error" : undefined}
-          className={`${fieldClass} ${errors.password ? "border-alert-700" : "border-line-strong"}`}
+          className={`${fieldClass} ${errors.password ? "border-alert-700" : "border-field"}`}
           {...form.register("password")}
         />
         {errors.password ? (

@@ -74,7 +74,7 @@ export function MarketDesk({ portfolio, userName, scopedToMarkets }: MarketDeskP
               id={pickerId}
               value={market.id}
               onChange={(event) => setMarketId(event.target.value)}
-              className="rounded-md border border-line-strong bg-surface px-3 py-1.5 text-body text-ink-900"
+              className="rounded-md border border-field bg-surface px-3 py-1.5 text-body text-ink-900"
             >
               {portfolio.markets.map((option) => (
                 <option key={option.id} value={option.id}>
