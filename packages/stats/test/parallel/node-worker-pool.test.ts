@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { buildModel } from "../../src/models/registry";
-import { sampleChainsInWorkers } from "../../src/parallel/node-worker-pool";
+import { SamplerWorkerPool, sampleChainsInWorkers } from "../../src/parallel/node-worker-pool";
 import { sampleChain } from "../../src/sampler/sample-chain";
 import type { ChainProgress, SamplerSettings } from "../../src/sampler/sampler-settings";
 
@@ -50,5 +50,31 @@ describe("sampleChainsInWorkers (Node worker threads)", () => {
   it("rejects bad input before starting any thread", async () => {
     await expect(sampleChainsInWorkers({ kind: "nope", data: {} }, settings)).rejects.toThrow(/unknown model kind/);
     await expect(sampleChainsInWorkers(spec, { ...settings, chains: 0 })).rejects.toThrow(/chains must be an integer/);
+  });
+});
+
+describe("SamplerWorkerPool", () => {
+  it("reuses its threads across runs and gives the same draws each time", async () => {
+    const pool = new SamplerWorkerPool({ maxWorkers: 2 });
+    try {
+      const first = await pool.run(spec, { ...settings, chains: 2 });
+      const second = await pool.run(spec, { ...settings, chains: 2 });
+      expect(second[1]!.draws).toEqual(first[1]!.draws);
+      await expect(Promise.all([pool.run(spec, settings), pool.run(spec, settings)])).rejects.toThrow(/already running/);
+    } finally {
+      await pool.close();
+    }
+    await expect(pool.run(spec, settings)).rejects.toThrow(/closed/);
+  });
+
+  it("reports a failing model in a worker as a rejected run", async () => {
+    const pool = new SamplerWorkerPool({ maxWorkers: 1 });
+    try {
+      // Passes the main-thread check but has no finite starting point in the worker.
+      const bad = { kind: "normal-mean", data: { y: [1e308, -1e308, 1e308], sigma: 1e-300, priorMean: 0, priorSd: 1 } };
+      await expect(pool.run(bad, { ...settings, chains: 1 })).rejects.toThrow(/chain 1 failed: no starting point/);
+    } finally {
+      await pool.close();
+    }
   });
 });
