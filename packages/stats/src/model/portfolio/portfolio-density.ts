@@ -227,7 +227,8 @@ export class PortfolioDensity implements DensityModel {
     const J = k.seasonalityOrder;
     const K = k.controlCount;
     let lp = this.readChannelBlocks(q, grad);
-    this.computeMedia(true);
+    const hill = lay.hillShape >= 0;
+    if (hill) this.computeMedia(true);
     this.gradLogBeta.fill(0);
     this.gradLogTheta.fill(0);
     this.gradAlpha.fill(0);
@@ -254,7 +255,8 @@ export class PortfolioDensity implements DensityModel {
     const dTheta = this.responseThetaDerivative;
     const dShape = this.responseShapeDerivative;
     const dAdstock = this.adstockDerivative;
-    const hill = lay.hillShape >= 0;
+    const adstock = this.adstock;
+    const L = k.maxLag;
     for (let g = 0; g < G; g++) {
       const T = k.weeks[g]!;
       const train = k.trainWeeks[g]!;
@@ -268,7 +270,35 @@ export class PortfolioDensity implements DensityModel {
       lp -= 0.5 * (u0 * u0 + u1 * u1);
       grad[block] = -u0;
       grad[block + 1] = -u1;
-      for (let t = 0; t < train; t++) mean[start + t] = beta0 + beta1 * k.trend[start + t]!;
+      // media first, mean[t] = Σ_c β·r(a[t]); the centring Σ_c β·mean(r) is folded into the intercept
+      for (let t = 0; t < train; t++) mean[start + t] = 0;
+      let mediaShift = 0;
+      for (let c = 0; c < C; c++) {
+        const gc = g * C + c;
+        if (k.channelActive[gc] === 0) continue;
+        const b = this.beta[gc]!;
+        const ms = k.mediaStart[gc]!;
+        if (!hill) {
+          // exponential saturation fused here: one exp per cell × channel × week
+          adstockGeometricUnchecked(k.spend, this.adstockLength[gc]!, this.alpha[c]!, L, adstock, dAdstock, ms);
+          const theta = this.theta[gc]!;
+          const invTheta = 1 / theta;
+          let sum = 0;
+          for (let t = 0; t < train; t++) {
+            const e = Math.exp(-adstock[ms + t]! * invTheta);
+            slope[ms + t] = e;
+            const r = theta - theta * e;
+            sum += r;
+            mean[start + t] = mean[start + t]! + b * r;
+          }
+          this.mediaMean[gc] = sum / train;
+        } else {
+          for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + b * response[ms + t]!;
+        }
+        mediaShift += b * this.mediaMean[gc]!;
+      }
+      const intercept = beta0 - mediaShift;
+      for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + intercept + beta1 * k.trend[start + t]!;
       const sBase = k.seasonalStart[g]!;
       for (let j = 0; j < 2 * J; j++) {
         const u = q[block + 2 + j]!;
@@ -293,14 +323,6 @@ export class PortfolioDensity implements DensityModel {
         const coef = scale * u;
         const col = cBase + j * T;
         for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + coef * k.controlDesign[col + t]!;
-      }
-      for (let c = 0; c < C; c++) {
-        const gc = g * C + c;
-        if (k.channelActive[gc] === 0) continue;
-        const b = this.beta[gc]!;
-        const shift = b * this.mediaMean[gc]!;
-        const ms = k.mediaStart[gc]!;
-        for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + b * response[ms + t]! - shift;
       }
 
       // likelihood over the training weeks
@@ -367,13 +389,32 @@ export class PortfolioDensity implements DensityModel {
         let sTheta = 0;
         let sAlpha = 0;
         let sShape = 0;
-        for (let t = 0; t < train; t++) {
-          const phi = rho[start + t]! - rhoMean;
-          const i = ms + t;
-          sR += phi * response[i]!;
-          sTheta += phi * dTheta[i]!;
-          sAlpha += phi * slope[i]! * dAdstock[i]!;
-          if (hill) sShape += phi * dShape[i]!;
+        if (!hill) {
+          // r = θ(1 − e), dr/dθ = 1 − e − (a/θ)e, dr/da = e, with e = exp(−a/θ)
+          const theta = this.theta[gc]!;
+          let sPhi = 0;
+          let sE = 0;
+          let sAE = 0;
+          for (let t = 0; t < train; t++) {
+            const phi = rho[start + t]! - rhoMean;
+            const i = ms + t;
+            const pe = phi * slope[i]!;
+            sPhi += phi;
+            sE += pe;
+            sAE += pe * adstock[i]!;
+            sAlpha += pe * dAdstock[i]!;
+          }
+          sR = theta * (sPhi - sE);
+          sTheta = sPhi - sE - sAE / theta;
+        } else {
+          for (let t = 0; t < train; t++) {
+            const phi = rho[start + t]! - rhoMean;
+            const i = ms + t;
+            sR += phi * response[i]!;
+            sTheta += phi * dTheta[i]!;
+            sAlpha += phi * slope[i]! * dAdstock[i]!;
+            sShape += phi * dShape[i]!;
+          }
         }
         const b = this.beta[gc]!;
         this.gradLogBeta[gc] = this.gradLogBeta[gc]! + b * sR;
