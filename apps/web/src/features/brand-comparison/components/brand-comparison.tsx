@@ -12,12 +12,17 @@ const outline = [
 export function BrandComparison({ scopedToMarkets }: { scopedToMarkets: boolean }) {
   return (
     <>
-      <PageHeader title="Brand comparison" description="What each channel costs per new customer in each brand, side by side." />
+      <PageHeader
+        title="Brand comparison"
+        description="What each channel costs per new customer in each brand, side by side."
+      />
       {scopedToMarkets ? (
         <p className="mb-4 text-small text-ink-700">You will see your own markets only.</p>
       ) : null}
       <ScreenOutline items={outline} />
-      <EmptyState title="No published fit yet">The comparison needs a published fit. Once an analyst publishes one, each brand's interval per channel appears here.</EmptyState>
+      <EmptyState title="No published fit yet">
+        The comparison needs a published fit. Once an analyst publishes one, each brand's interval per channel appears here.
+      </EmptyState>
     </>
   );
 }

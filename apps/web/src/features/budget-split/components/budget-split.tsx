@@ -14,12 +14,17 @@ const outline = [
 export function BudgetSplit() {
   return (
     <>
-      <PageHeader title="Budget split" description="Split a total budget across channels and markets where it is expected to earn most." />
+      <PageHeader
+        title="Budget split"
+        description="Split a total budget across channels and markets where it is expected to earn most."
+      />
       <div className="mb-6">
         <ModelCaution />
       </div>
       <ScreenOutline items={outline} />
-      <EmptyState title="No plans yet">Saved budget plans will be listed here. A split needs a published fit, and there is none yet.</EmptyState>
+      <EmptyState title="No plans to show">
+        A split needs a published fit; this screen shows no plans until one exists.
+      </EmptyState>
     </>
   );
 }

@@ -13,9 +13,14 @@ const outline = [
 export function ChannelSheet() {
   return (
     <>
-      <PageHeader title="Channel sheet" description="One brand in one market, one channel: everything the model says about what that channel costs." />
+      <PageHeader
+        title="Channel sheet"
+        description="One brand in one market, one channel: everything the model says about what that channel costs."
+      />
       <ScreenOutline items={outline} />
-      <EmptyState title="No published fit yet">A channel sheet needs a published fit. Once an analyst publishes one, you pick a cell and a channel here.</EmptyState>
+      <EmptyState title="No published fit yet">
+        A channel sheet needs a published fit. Once an analyst publishes one, you pick a cell and a channel here.
+      </EmptyState>
     </>
   );
 }

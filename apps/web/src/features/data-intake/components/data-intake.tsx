@@ -13,9 +13,14 @@ const outline = [
 export function DataIntake() {
   return (
     <>
-      <PageHeader title="Data intake" description="Bring in the weekly data the model learns from, check it, and keep every version." />
+      <PageHeader
+        title="Data intake"
+        description="Bring in the weekly data the model learns from, check it, and keep every version."
+      />
       <ScreenOutline items={outline} />
-      <EmptyState title="Nothing here yet">Uploads, validation reports and the list of dataset versions will appear on this screen. It holds no data yet.</EmptyState>
+      <EmptyState title="Nothing here yet">
+        This screen is not connected yet, so it shows no uploads or dataset versions. The Portfolio map already shows how many weeks of data each cell holds.
+      </EmptyState>
     </>
   );
 }

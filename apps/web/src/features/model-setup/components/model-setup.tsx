@@ -13,9 +13,14 @@ const outline = [
 export function ModelSetup() {
   return (
     <>
-      <PageHeader title="Model setup" description="Say what the team already knows before any fit: the priors and the shape of the model." />
+      <PageHeader
+        title="Model setup"
+        description="Say what the team already knows before any fit: the priors and the shape of the model."
+      />
       <ScreenOutline items={outline} />
-      <EmptyState title="No model set up yet">Saved model setups will be listed here. There are none yet.</EmptyState>
+      <EmptyState title="Nothing here yet">
+        This screen is not connected yet, so it shows no saved model setups.
+      </EmptyState>
     </>
   );
 }

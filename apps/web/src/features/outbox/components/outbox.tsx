@@ -11,9 +11,15 @@ const outline = [
 export function Outbox() {
   return (
     <>
-      <PageHeader title="Outbox" description="In local mode, every e-mail the product sent, readable here instead of in a mailbox." />
+      <PageHeader
+        title="Outbox"
+        description="In local mode, every e-mail the product sent, readable here instead of in a mailbox."
+      />
       <ScreenOutline items={outline} />
-      <EmptyState title="No e-mails sent yet">The product has not sent any e-mail yet. Messages will be listed here as they are sent.</EmptyState>
+      <EmptyState title="Nothing here yet">
+        This screen is not connected to the outbox yet, so it shows no messages. Every e-mail the product sends will be
+        listed here.
+      </EmptyState>
     </>
   );
 }

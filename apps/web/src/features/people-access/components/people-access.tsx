@@ -12,9 +12,14 @@ const outline = [
 export function PeopleAccess() {
   return (
     <>
-      <PageHeader title="People & access" description="Who can use this workspace, in which role, and what changed." />
+      <PageHeader
+        title="People & access"
+        description="Who can use this workspace, in which role, and what changed."
+      />
       <ScreenOutline items={outline} />
-      <EmptyState title="Nothing here yet">The list of people, invitations and the audit log will appear on this screen. It is not connected yet.</EmptyState>
+      <EmptyState title="Nothing here yet">
+        The list of people, invitations and the audit log will appear on this screen. It is not connected yet.
+      </EmptyState>
     </>
   );
 }

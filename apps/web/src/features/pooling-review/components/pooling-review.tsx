@@ -12,9 +12,14 @@ const outline = [
 export function PoolingReview() {
   return (
     <>
-      <PageHeader title="Pooling review" description="See how far pooling moved each cell's estimate, and flag the ones that need a closer look." />
+      <PageHeader
+        title="Pooling review"
+        description="See how far pooling moved each cell's estimate, and flag the ones that need a closer look."
+      />
       <ScreenOutline items={outline} />
-      <EmptyState title="No finished run to review">The review needs a finished run. There is none yet.</EmptyState>
+      <EmptyState title="No run to review">
+        The review needs a finished run, and this screen is not connected to any run yet.
+      </EmptyState>
     </>
   );
 }

@@ -12,9 +12,14 @@ const outline = [
 export function Runs() {
   return (
     <>
-      <PageHeader title="Runs" description="Fits of the portfolio model: follow them while they run, and check them before anyone relies on them." />
+      <PageHeader
+        title="Runs"
+        description="Fits of the portfolio model: follow them while they run, and check them before anyone relies on them."
+      />
       <ScreenOutline items={outline} />
-      <EmptyState title="No runs yet">No fit has been started. Runs started from Model setup will be listed here.</EmptyState>
+      <EmptyState title="No runs to show">
+        This screen is not connected to the fit runner yet, so it lists no runs.
+      </EmptyState>
     </>
   );
 }

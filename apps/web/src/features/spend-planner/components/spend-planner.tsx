@@ -12,7 +12,10 @@ const outline = [
 export function SpendPlanner({ scopedToMarkets }: { scopedToMarkets: boolean }) {
   return (
     <>
-      <PageHeader title="Spend planner" description="Try spend changes for the weeks ahead and see what the model expects, with its uncertainty." />
+      <PageHeader
+        title="Spend planner"
+        description="Try spend changes for the weeks ahead and see what the model expects, with its uncertainty."
+      />
       {scopedToMarkets ? (
         <p className="mb-4 text-small text-ink-700">You will see your own markets only.</p>
       ) : null}
@@ -20,7 +23,9 @@ export function SpendPlanner({ scopedToMarkets }: { scopedToMarkets: boolean }) 
         <ModelCaution />
       </div>
       <ScreenOutline items={outline} />
-      <EmptyState title="No scenarios yet">Saved spend scenarios will be listed here. Planning needs a published fit, and there is none yet.</EmptyState>
+      <EmptyState title="No scenarios to show">
+        Planning needs a published fit; this screen shows no scenarios until one exists.
+      </EmptyState>
     </>
   );
 }
