@@ -44,3 +44,35 @@ export { samplerEndpoint, createStopFlag } from "./parallel/sampler-endpoint";
 export type { SamplerEndpoint } from "./parallel/sampler-endpoint";
 export { sampleChainsOnEndpoints, emptyCancelledChain } from "./parallel/endpoint-pool";
 export type { ChainEndpoint, EndpointPoolHooks } from "./parallel/endpoint-pool";
+
+// Fitting a portfolio: pooled model, no-pooling comparison, diagnostics and result tables.
+export { fitPortfolio, validateFitInput, unpooledCellSeed } from "./fit/fit-portfolio";
+export type { FitHooks } from "./fit/fit-portfolio";
+export type { FitOptions } from "./fit/fit-options";
+export { RETRY_TARGET_ACCEPTANCE } from "./fit/fit-options";
+export type { FitProgress, FitModelLabel } from "./fit/fit-progress";
+export type {
+  FitResult,
+  FitDiagnostics,
+  FitSettings,
+  FitTiming,
+  ModelDiagnostics,
+  PosteriorSummary,
+  ChannelResult,
+  CellChannelResult,
+  PoolingFactorResult,
+} from "./fit/fit-result";
+export { FitCancelledError, isFitCancelled } from "./fit/fit-cancelled";
+export { runChainsInThread } from "./fit/chain-runner";
+export type { RunChains } from "./fit/chain-runner";
+export {
+  pooledPortfolioKind,
+  unpooledPortfolioCellKind,
+  pooledPortfolioSpec,
+  unpooledCellSpec,
+  pooledPortfolioModelFromSpec,
+  unpooledCellModelFromSpec,
+  portfolioModelBuilders,
+} from "./fit/portfolio-model-spec";
+export { registryKnowsPortfolioModels, buildFitModel } from "./fit/fit-model";
+export type { PortfolioSpecData } from "./fit/portfolio-model-spec";
