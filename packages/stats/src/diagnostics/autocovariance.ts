@@ -1,25 +1,40 @@
-import { fft } from "./fft";
+import { createFftPlan, fft, type FftPlan } from "./fft";
 import { mean } from "./moments";
+
+/** Reusable buffers for the autocovariances of many series of one length. */
+export interface AutocovarianceWorkspace {
+  readonly length: number;
+  readonly plan: FftPlan;
+  readonly re: Float64Array;
+  readonly im: Float64Array;
+}
+
+export function createAutocovarianceWorkspace(length: number): AutocovarianceWorkspace {
+  let size = 1;
+  while (size < 2 * length) size <<= 1;
+  return { length, plan: createFftPlan(size), re: new Float64Array(size), im: new Float64Array(size) };
+}
 
 /**
  * Autocovariances at lags 0..N−1 by FFT (biased estimate, divisor N, as Geyer 1992
  * recommends), scaled by M/N where M is the next 2-3-5-smooth size ≥ N: R's posterior
  * normalises its padded transform that way, and its ESS values depend on it.
  */
-export function autocovariance(values: ArrayLike<number>): Float64Array {
+export function autocovariance(values: ArrayLike<number>, workspace: AutocovarianceWorkspace = createAutocovarianceWorkspace(values.length)): Float64Array {
   const n = values.length;
-  let size = 1;
-  while (size < 2 * n) size <<= 1;
-  const re = new Float64Array(size);
-  const im = new Float64Array(size);
+  if (workspace.length !== n) throw new Error(`autocovariance workspace is for length ${workspace.length}, got ${n}`);
+  const { re, im, plan } = workspace;
+  const size = plan.size;
+  re.fill(0);
+  im.fill(0);
   const m = mean(values);
   for (let i = 0; i < n; i++) re[i] = values[i]! - m;
-  fft(re, im);
+  fft(re, im, false, plan);
   for (let i = 0; i < size; i++) {
     re[i] = re[i]! * re[i]! + im[i]! * im[i]!;
     im[i] = 0;
   }
-  fft(re, im, true);
+  fft(re, im, true, plan);
   const scale = nextSmoothSize(n) / (n * n * size);
   const out = new Float64Array(n);
   for (let i = 0; i < n; i++) out[i] = re[i]! * scale;

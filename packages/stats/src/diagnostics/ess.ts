@@ -1,4 +1,4 @@
-import { autocovariance } from "./autocovariance";
+import { autocovariance, createAutocovarianceWorkspace } from "./autocovariance";
 import { isDegenerate, mean, variance } from "./moments";
 import { quantile } from "./quantile";
 import { rankNormalise } from "./rank-normalise";
@@ -17,7 +17,8 @@ export function essOfChains(chains: readonly Float64Array[]): number {
   for (const c of chains) if (c.length !== n) throw new Error("all chains must have the same number of draws");
   if (n < 3 || isDegenerate(chains)) return Number.NaN;
 
-  const acov = chains.map((c) => autocovariance(c));
+  const workspace = createAutocovarianceWorkspace(n);
+  const acov = chains.map((c) => autocovariance(c, workspace));
   const chainMeans = Float64Array.from(chains, (c) => mean(c));
   const meanAcov = (lag: number): number => {
     let s = 0;

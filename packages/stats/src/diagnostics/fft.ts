@@ -1,7 +1,26 @@
-/** In-place iterative radix-2 complex FFT (Cooley & Tukey 1965); length must be a power of two. */
-export function fft(re: Float64Array, im: Float64Array, inverse = false): void {
+/** Twiddle factors and scratch for in-place radix-2 FFTs of one power-of-two size. */
+export interface FftPlan {
+  readonly size: number;
+  readonly cos: Float64Array;
+  readonly sin: Float64Array;
+}
+
+export function createFftPlan(size: number): FftPlan {
+  if (size < 1 || (size & (size - 1)) !== 0) throw new Error(`FFT length must be a power of two, got ${size}`);
+  const half = size >> 1;
+  const cos = new Float64Array(half);
+  const sin = new Float64Array(half);
+  for (let k = 0; k < half; k++) {
+    cos[k] = Math.cos((2 * Math.PI * k) / size);
+    sin[k] = Math.sin((2 * Math.PI * k) / size);
+  }
+  return { size, cos, sin };
+}
+
+/** In-place iterative radix-2 complex FFT (Cooley & Tukey 1965); unnormalised in both directions. */
+export function fft(re: Float64Array, im: Float64Array, inverse = false, plan: FftPlan = createFftPlan(re.length)): void {
   const n = re.length;
-  if ((n & (n - 1)) !== 0) throw new Error(`FFT length must be a power of two, got ${n}`);
+  if (plan.size !== n) throw new Error(`FFT plan is for length ${plan.size}, got ${n}`);
   for (let i = 1, j = 0; i < n; i++) {
     let bit = n >> 1;
     for (; j & bit; bit >>= 1) j ^= bit;
@@ -18,19 +37,18 @@ export function fft(re: Float64Array, im: Float64Array, inverse = false): void {
   const sign = inverse ? 1 : -1;
   for (let size = 2; size <= n; size <<= 1) {
     const half = size >> 1;
-    const angle = (sign * 2 * Math.PI) / size;
+    const stride = n / size;
     for (let k = 0; k < half; k++) {
-      const wr = Math.cos(angle * k);
-      const wi = Math.sin(angle * k);
+      const wr = plan.cos[k * stride]!;
+      const wi = sign * plan.sin[k * stride]!;
       for (let start = k; start < n; start += size) {
-        const a = start;
         const b = start + half;
         const xr = re[b]! * wr - im[b]! * wi;
         const xi = re[b]! * wi + im[b]! * wr;
-        re[b] = re[a]! - xr;
-        im[b] = im[a]! - xi;
-        re[a] = re[a]! + xr;
-        im[a] = im[a]! + xi;
+        re[b] = re[start]! - xr;
+        im[b] = im[start]! - xi;
+        re[start] = re[start]! + xr;
+        im[start] = im[start]! + xi;
       }
     }
   }

@@ -23,23 +23,46 @@ export function rankNormalise(chains: readonly Float64Array[]): Float64Array[] {
 export function pooledRanks(chains: readonly Float64Array[]): Float64Array {
   let total = 0;
   for (const c of chains) total += c.length;
-  const values = new Float64Array(total);
+  const sorted = new Float64Array(total);
   let offset = 0;
   for (const c of chains) {
-    values.set(c, offset);
+    sorted.set(c, offset);
     offset += c.length;
   }
-  const order = new Uint32Array(total);
-  for (let i = 0; i < total; i++) order[i] = i;
-  order.sort((a, b) => values[a]! - values[b]!);
+  sorted.sort();
   const ranks = new Float64Array(total);
-  let i = 0;
-  while (i < total) {
-    let j = i;
-    while (j + 1 < total && values[order[j + 1]!] === values[order[i]!]) j++;
-    const rank = (i + j) / 2 + 1;
-    for (let k = i; k <= j; k++) ranks[order[k]!] = rank;
-    i = j + 1;
+  offset = 0;
+  for (const c of chains) {
+    for (let i = 0; i < c.length; i++) {
+      const v = c[i]!;
+      // First index holding v and first index past it; the tied block shares the mean rank.
+      const first = lowerBound(sorted, v);
+      const past = upperBound(sorted, v, first);
+      ranks[offset + i] = (first + 1 + past) / 2;
+    }
+    offset += c.length;
   }
   return ranks;
+}
+
+function lowerBound(sorted: Float64Array, v: number): number {
+  let lo = 0;
+  let hi = sorted.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (sorted[mid]! < v) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+function upperBound(sorted: Float64Array, v: number, from: number): number {
+  let lo = from;
+  let hi = sorted.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (sorted[mid]! <= v) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
 }

@@ -85,7 +85,7 @@ export function summariseRun(chains: readonly ChainResult[], options: SummariseO
   let gradientEvaluations = 0;
   for (const c of chains) {
     for (let i = 0; i < c.divergent.length; i++) divergences += c.divergent[i]!;
-    for (let i = 0; i < c.treeDepth.length; i++) if (c.treeDepth[i]! >= c.maxTreeDepth) treeDepthHits++;
+    for (let i = 0; i < c.treeDepth.length; i++) if (c.treeDepth[i]! >= (c.maxTreeDepth ?? 10)) treeDepthHits++;
     gradientEvaluations += c.gradientEvaluations;
   }
   const energy = chains.map((c) => ebfmi(c.energy));

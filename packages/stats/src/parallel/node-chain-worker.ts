@@ -29,9 +29,8 @@ port.on("message", (message: RunChainMessage) => {
       (progress) => port.postMessage({ type: "progress", progress } satisfies WorkerReply),
       message.stopFlag,
     );
-    const buffers = [result.draws, result.treeDepth, result.leapfrogSteps, result.divergent, result.energy, result.acceptStat, result.logDensity, result.inverseMetric].map(
-      (a) => a.buffer as ArrayBuffer,
-    );
+    const arrays = [result.draws, result.treeDepth, result.leapfrogSteps, result.divergent, result.energy, result.acceptStat, result.logDensity, result.inverseMetric];
+    const buffers = arrays.flatMap((a) => (a === undefined ? [] : [a.buffer as ArrayBuffer]));
     port.postMessage({ type: "done", result } satisfies WorkerReply, buffers);
   } catch (error) {
     port.postMessage({ type: "error", chain: message.chain, message: error instanceof Error ? error.message : String(error) } satisfies WorkerReply);

@@ -44,15 +44,15 @@ export interface ChainResult {
   energy: Float64Array;
   acceptStat: Float64Array;
   /** Log density (up to a constant, Jacobian included) of each kept draw. */
-  logDensity: Float64Array;
+  logDensity?: Float64Array;
   stepSize: number;
   inverseMetric: Float64Array;
   /** Gradient evaluations of the whole chain, warm-up and initialisation included. */
   gradientEvaluations: number;
   /** Divergent transitions during warm-up (not part of the trust rule). */
-  warmupDivergences: number;
-  /** Maximum tree depth the chain ran with, so depth hits can be counted. */
-  maxTreeDepth: number;
+  warmupDivergences?: number;
+  /** Maximum tree depth the chain ran with, so depth hits can be counted (10 if absent). */
+  maxTreeDepth?: number;
   seconds: number;
   cancelled: boolean;
 }

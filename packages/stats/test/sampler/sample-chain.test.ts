@@ -27,7 +27,7 @@ describe("sampleChain", () => {
     const kept = Math.ceil(200 / 3);
     expect(r.names).toEqual(model.constrainedNames);
     expect(r.draws.length).toBe(kept * r.names.length);
-    for (const a of [r.treeDepth, r.leapfrogSteps, r.divergent, r.energy, r.acceptStat, r.logDensity]) expect(a.length).toBe(kept);
+    for (const a of [r.treeDepth, r.leapfrogSteps, r.divergent, r.energy, r.acceptStat, r.logDensity]) expect(a?.length).toBe(kept);
     expect(r.inverseMetric.length).toBe(model.dimension);
     expect(r.stepSize).toBeGreaterThan(0);
     const steps = Array.from(r.leapfrogSteps).reduce((a, b) => a + b, 0);
