@@ -76,3 +76,4 @@ export {
 } from "./fit/portfolio-model-spec";
 export { registryKnowsPortfolioModels, buildFitModel } from "./fit/fit-model";
 export type { PortfolioSpecData } from "./fit/portfolio-model-spec";
+export * from "./prior-check";
