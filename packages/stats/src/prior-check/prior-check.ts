@@ -2,10 +2,9 @@ import type { PortfolioData } from "../data/portfolio-data";
 import { adstockGeometricUnchecked } from "../model/adstock";
 import { buildPortfolioConstants } from "../model/portfolio/portfolio-constants";
 import { resolvePortfolioOptions, type PortfolioModelOptions } from "../model/portfolio/portfolio-options";
-import { saturationExponential, saturationHill } from "../model/saturation";
+import { saturationHill } from "../model/saturation";
 import { createRandomSource } from "../rng/create-random-source";
 import { drawBeta, drawGamma } from "../simulate/random-draws";
-import { quantileSorted } from "../diagnostics/quantile";
 import type {
   CellPriorCheck,
   ChannelPriorCheck,
@@ -13,6 +12,7 @@ import type {
   PriorCheckSettings,
   PriorQuantiles,
 } from "./prior-check-types";
+import { selectQuantiles } from "./select-quantiles";
 
 /** The model options a prior check reads; lift tests inform the posterior only, so they play no part. */
 export type PriorCheckModelOptions = Omit<PortfolioModelOptions, "liftTests">;
@@ -27,16 +27,6 @@ const NU_PRIOR_RATE = 0.1;
 
 export const DEFAULT_PRIOR_CHECK_DRAWS = 200;
 const MAX_PRIOR_CHECK_DRAWS = 100_000;
-
-function quantilesOfSorted(sorted: Float64Array): PriorQuantiles {
-  return {
-    q05: quantileSorted(sorted, 0.05),
-    q25: quantileSorted(sorted, 0.25),
-    q50: quantileSorted(sorted, 0.5),
-    q75: quantileSorted(sorted, 0.75),
-    q95: quantileSorted(sorted, 0.95),
-  };
-}
 
 /**
  * A prior predictive check of the portfolio model: draws every parameter from its prior
@@ -158,7 +148,9 @@ export function priorCheck(data: PortfolioData, options: PriorCheckModelOptions 
           const s = shape[gc]!;
           for (let t = 0; t < T; t++) response[t] = saturationHill(adstock[t]!, theta, s);
         } else {
-          for (let t = 0; t < T; t++) response[t] = saturationExponential(adstock[t]!, theta);
+          // r(a; θ) = θ·(1 − exp(−a/θ)), written out as in the density's hot loop
+          const invTheta = 1 / theta;
+          for (let t = 0; t < T; t++) response[t] = theta - theta * Math.exp(-adstock[t]! * invTheta);
         }
         for (let t = 0; t < train; t++) trainSum += response[t]!;
         for (let t = 0; t < T; t++) mean[t] = mean[t]! + beta * response[t]!;
@@ -208,8 +200,7 @@ export function priorCheck(data: PortfolioData, options: PriorCheckModelOptions 
         pool[n++] = cac0Draws[(d * G + g) * C + c]!;
       }
     }
-    pool.sort();
-    return { channel, cacRange: [resolved.cacRange[c]![0], resolved.cacRange[c]![1]], cac0: quantilesOfSorted(pool), cellsWithSpend };
+    return { channel, cacRange: [resolved.cacRange[c]![0], resolved.cacRange[c]![1]], cac0: selectQuantiles(pool), cellsWithSpend };
   });
 
   const cells: CellPriorCheck[] = data.cells.map((cell, g) => {
@@ -225,15 +216,13 @@ export function priorCheck(data: PortfolioData, options: PriorCheckModelOptions 
         all[t * draws + d] = value;
         if (value < 0) below++;
       }
-      column.sort();
-      const q = quantilesOfSorted(column);
+      const q = selectQuantiles(column);
       bands.q05[t] = q.q05;
       bands.q25[t] = q.q25;
       bands.q50[t] = q.q50;
       bands.q75[t] = q.q75;
       bands.q95[t] = q.q95;
     }
-    all.sort();
     const observed = Array.from(cell.outcome);
     let observedMin = Infinity;
     let observedMax = -Infinity;
@@ -241,15 +230,18 @@ export function priorCheck(data: PortfolioData, options: PriorCheckModelOptions 
       observedMin = Math.min(observedMin, value);
       observedMax = Math.max(observedMax, value);
     }
-    for (let d = 0; d < draws; d++) column[d] = mediaShareDraws[d * G + g]!;
-    column.sort();
+    // A cell whose observed outcome sums to zero has no media share (NaN); none is reported then.
+    let shares = 0;
+    for (let d = 0; d < draws; d++) {
+      const share = mediaShareDraws[d * G + g]!;
+      if (!Number.isNaN(share)) column[shares++] = share;
+    }
     const cac0: { channel: string; quantiles: PriorQuantiles }[] = [];
     for (let c = 0; c < C; c++) {
       if (k.channelActive[g * C + c] === 0) continue;
       const values = new Float64Array(draws);
       for (let d = 0; d < draws; d++) values[d] = cac0Draws[(d * G + g) * C + c]!;
-      values.sort();
-      cac0.push({ channel: k.channels[c]!, quantiles: quantilesOfSorted(values) });
+      cac0.push({ channel: k.channels[c]!, quantiles: selectQuantiles(values) });
     }
     return {
       brand: cell.brand,
@@ -259,11 +251,11 @@ export function priorCheck(data: PortfolioData, options: PriorCheckModelOptions 
       trainWeeks: k.trainWeeks[g]!,
       observed,
       bands,
-      outcome: quantilesOfSorted(all),
+      outcome: selectQuantiles(all),
       observedMin,
       observedMax,
       belowZeroShare: below / (draws * T),
-      mediaShare: quantilesOfSorted(column),
+      mediaShare: selectQuantiles(column, shares),
       cac0,
     };
   });
