@@ -94,22 +94,16 @@ export class TrajectoryBuilder {
     sign: number,
   ): boolean {
     if (depth === 0) {
-      leapfrog(this.model, z, this.inverseMetric, sign * this.stepSize);
-      this.leapfrogSteps++;
-      let energy = z.kinetic - z.logDensity;
-      if (Number.isNaN(energy)) energy = Number.POSITIVE_INFINITY;
-      if (energy - this.initialEnergy > this.maxEnergyError) this.divergent = true;
-      const logWeight = this.initialEnergy - energy;
-      this.subtreeLogWeight = logWeight;
-      this.sumAcceptProbability += logWeight > 0 ? 1 : Math.exp(logWeight);
+      if (!this.leaf(z, sign)) return false;
       proposeFromPoint(z, proposal);
       rho.set(z.p);
       pBegin.set(z.p);
       pEnd.set(z.p);
       vBegin.set(z.v);
       vEnd.set(z.v);
-      return !this.divergent;
+      return true;
     }
+    if (depth === 1) return this.buildPair(z, proposal, vBegin, vEnd, rho, pBegin, pEnd, sign);
 
     const frame = this.frames[depth]!;
     if (!this.build(depth - 1, z, proposal, vBegin, frame.vInitEnd, frame.rhoInit, pBegin, frame.pInitEnd, sign)) return false;
@@ -136,7 +130,62 @@ export class TrajectoryBuilder {
       frame.vInitEnd,
       frame.pFinalBegin,
       frame.vFinalBegin,
-      depth > 1,
+      true,
     );
+  }
+
+  /** One leapfrog step from `z`; records its weight and acceptance. False if it diverged. */
+  private leaf(z: PhasePoint, sign: number): boolean {
+    leapfrog(this.model, z, this.inverseMetric, sign * this.stepSize);
+    this.leapfrogSteps++;
+    let energy = z.kinetic - z.logDensity;
+    if (Number.isNaN(energy)) energy = Number.POSITIVE_INFINITY;
+    if (energy - this.initialEnergy > this.maxEnergyError) this.divergent = true;
+    const logWeight = this.initialEnergy - energy;
+    this.subtreeLogWeight = logWeight;
+    this.sumAcceptProbability += logWeight > 0 ? 1 : Math.exp(logWeight);
+    return !this.divergent;
+  }
+
+  /**
+   * A depth-1 subtree (two leapfrog steps), the most frequent case, with the same result as
+   * the general recursion but fewer copies: the second point is copied only if it is drawn,
+   * and ρ and the U-turn check come out of one sweep (for two points the cross checks of the
+   * general case coincide with the plain one).
+   */
+  private buildPair(
+    z: PhasePoint,
+    proposal: Proposal,
+    vBegin: Float64Array,
+    vEnd: Float64Array,
+    rho: Float64Array,
+    pBegin: Float64Array,
+    pEnd: Float64Array,
+    sign: number,
+  ): boolean {
+    if (!this.leaf(z, sign)) return false;
+    const logWeightFirst = this.subtreeLogWeight;
+    proposeFromPoint(z, proposal);
+    pBegin.set(z.p);
+    vBegin.set(z.v);
+    if (!this.leaf(z, sign)) return false;
+    const logWeightSecond = this.subtreeLogWeight;
+    const logWeight = logSumExp(logWeightFirst, logWeightSecond);
+    this.subtreeLogWeight = logWeight;
+    if (logWeightSecond > logWeight || this.rng!.uniform() < Math.exp(logWeightSecond - logWeight)) proposeFromPoint(z, proposal);
+    const { p, v } = z;
+    let begin = 0;
+    let end = 0;
+    for (let i = 0; i < rho.length; i++) {
+      const pi = p[i]!;
+      const vi = v[i]!;
+      const r = pBegin[i]! + pi;
+      rho[i] = r;
+      pEnd[i] = pi;
+      vEnd[i] = vi;
+      begin += vBegin[i]! * r;
+      end += vi * r;
+    }
+    return begin > 0 && end > 0;
   }
 }

@@ -7,10 +7,8 @@ import type { RandomSource } from "./random-source";
  * Bray 1964), whose spare value is part of the saved state.
  */
 export class Xoshiro128StarStar implements RandomSource {
-  private s0: number;
-  private s1: number;
-  private s2: number;
-  private s3: number;
+  // Int32 words keep every operation in 32-bit integer arithmetic (no boxed doubles).
+  private readonly s = new Int32Array(4);
   private hasSpare = false;
   private spare = 0;
   private readonly spareBits = new Float64Array(1);
@@ -18,11 +16,8 @@ export class Xoshiro128StarStar implements RandomSource {
 
   constructor(state: ArrayLike<number>) {
     if (state.length < 4) throw new Error("xoshiro128** needs a state of at least 4 words");
-    this.s0 = state[0]! >>> 0;
-    this.s1 = state[1]! >>> 0;
-    this.s2 = state[2]! >>> 0;
-    this.s3 = state[3]! >>> 0;
-    if ((this.s0 | this.s1 | this.s2 | this.s3) === 0) throw new Error("xoshiro128** state must not be all zero");
+    for (let i = 0; i < 4; i++) this.s[i] = state[i]! | 0;
+    if ((this.s[0]! | this.s[1]! | this.s[2]! | this.s[3]!) === 0) throw new Error("xoshiro128** state must not be all zero");
     if (state.length >= 7 && state[4] === 1) {
       this.spareWords[0] = state[5]! >>> 0;
       this.spareWords[1] = state[6]! >>> 0;
@@ -33,18 +28,17 @@ export class Xoshiro128StarStar implements RandomSource {
 
   /** Next 32-bit unsigned integer. */
   nextUint32(): number {
-    const s1 = this.s1;
-    const result = Math.imul(rotl(Math.imul(s1, 5), 7), 9) >>> 0;
-    const t = (s1 << 9) >>> 0;
-    this.s2 ^= this.s0;
-    this.s3 ^= this.s1;
-    this.s1 ^= this.s2;
-    this.s0 ^= this.s3;
-    this.s2 ^= t;
-    this.s3 = rotl(this.s3, 11);
-    this.s0 >>>= 0;
-    this.s1 >>>= 0;
-    this.s2 >>>= 0;
+    const s = this.s;
+    const s0 = s[0]!;
+    const s1 = s[1]!;
+    const s2 = s[2]! ^ s0;
+    const s3 = s[3]! ^ s1;
+    const m = Math.imul(s1, 5);
+    const result = Math.imul((m << 7) | (m >>> 25), 9) >>> 0;
+    s[1] = s1 ^ s2;
+    s[0] = s0 ^ s3;
+    s[2] = s2 ^ (s1 << 9);
+    s[3] = (s3 << 11) | (s3 >>> 21);
     return result;
   }
 
@@ -61,13 +55,13 @@ export class Xoshiro128StarStar implements RandomSource {
     }
     let u = 0;
     let v = 0;
-    let s = 0;
+    let r2 = 0;
     do {
       u = 2 * this.uniform() - 1;
       v = 2 * this.uniform() - 1;
-      s = u * u + v * v;
-    } while (s >= 1 || s === 0);
-    const factor = Math.sqrt((-2 * Math.log(s)) / s);
+      r2 = u * u + v * v;
+    } while (r2 >= 1 || r2 === 0);
+    const factor = Math.sqrt((-2 * Math.log(r2)) / r2);
     this.spare = v * factor;
     this.hasSpare = true;
     return u * factor;
@@ -75,10 +69,7 @@ export class Xoshiro128StarStar implements RandomSource {
 
   saveState(): Uint32Array {
     this.spareBits[0] = this.spare;
-    return Uint32Array.of(this.s0, this.s1, this.s2, this.s3, this.hasSpare ? 1 : 0, this.spareWords[0]!, this.spareWords[1]!);
+    const s = this.s;
+    return Uint32Array.of(s[0]! >>> 0, s[1]! >>> 0, s[2]! >>> 0, s[3]! >>> 0, this.hasSpare ? 1 : 0, this.spareWords[0]!, this.spareWords[1]!);
   }
-}
-
-function rotl(x: number, k: number): number {
-  return ((x << k) | (x >>> (32 - k))) >>> 0;
 }
