@@ -3,6 +3,7 @@ import { eightSchoolsKind, eightSchoolsModel } from "./examples/eight-schools";
 import { funnelKind, funnelModel } from "./examples/funnel";
 import { normalMeanKind, normalMeanModel } from "./examples/normal-mean";
 import { scaledGaussianKind, scaledGaussianModel } from "./examples/scaled-gaussian";
+import { portfolioPooledKind, portfolioPooledModel, portfolioUnpooledKind, portfolioUnpooledModel } from "../model/portfolio/portfolio-model-kinds";
 
 /** Builds a model from its plain-data description; throws a clear error on bad data. */
 export type ModelBuilder = (data: unknown) => DensityModel;
@@ -16,6 +17,8 @@ export const modelBuilders: Readonly<Record<string, ModelBuilder>> = {
   [normalMeanKind]: normalMeanModel,
   [scaledGaussianKind]: scaledGaussianModel,
   [funnelKind]: funnelModel,
+  [portfolioPooledKind]: portfolioPooledModel,
+  [portfolioUnpooledKind]: portfolioUnpooledModel,
 };
 
 export function buildModel(spec: ModelSpec): DensityModel {

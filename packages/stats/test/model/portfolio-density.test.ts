@@ -45,6 +45,8 @@ const configurations: [string, boolean, PortfolioModelOptions][] = [
   ["Hill saturation, brand pooling, lift tests", false, { saturation: "hill", pooling: "brand", liftTests: smallLiftTests }],
   ["market pooling, L = 4, J = 1", false, { pooling: "market", maxLag: 4, seasonalityOrder: 1 }],
   ["cell-only pooling, J = 0", true, { pooling: "cell-only", seasonalityOrder: 0 }],
+  ["all cells centred", false, { centredCellMinSignal: -Infinity }],
+  ["all cells non-centred (as written in model.md)", false, { centredCellMinSignal: Infinity }],
 ];
 
 describe("pooled portfolio density", () => {
@@ -73,14 +75,23 @@ describe("pooled portfolio density", () => {
     const cols = new ParameterColumns(model.constrainedNames);
     const lay = model.layout;
     const k = model.constants;
+    // the small portfolio exercises both ways of sampling the cell level
+    expect(lay.cellCentred.includes(1)).toBe(true);
+    expect(lay.cellCentred.includes(0)).toBe(true);
     k.channels.forEach((ch, c) => {
       for (let g = 0; g < k.cellCount; g++) {
         const expected =
           out[cols.channel("mu", ch)]! +
           out[cols.channel("tauBrand", ch)]! * q[lay.zBrand + k.cellBrand[g]! * 3 + c]! +
           out[cols.channel("tauMarket", ch)]! * q[lay.zMarket + k.cellMarket[g]! * 3 + c]! +
-          out[cols.channel("tauCell", ch)]! * q[lay.zCell + g * 3 + c]!;
+          out[cols.cellChannel("cellDeviation", g, ch)]!;
         expect(Math.log(out[cols.cellChannel("beta", g, ch)]!)).toBeCloseTo(expected, 12);
+        // the cell level is sampled centred where the data are long, else non-centred
+        if (lay.cellCentred[g * 3 + c] === 0) {
+          expect(out[cols.cellChannel("cellDeviation", g, ch)]).toBeCloseTo(out[cols.channel("tauCell", ch)]! * q[lay.zCell + g * 3 + c]!, 12);
+        } else {
+          expect(Math.log(out[cols.cellChannel("beta", g, ch)]!)).toBeCloseTo(k.muPriorMean[c]! + k.muPriorSd[c]! * q[lay.zCell + g * 3 + c]!, 12);
+        }
         expect(out[cols.cellChannel("cac0", g, ch)]! * out[cols.cellChannel("beta", g, ch)]!).toBeCloseTo(1, 12);
         const group = out[cols.channel("mu", ch)]! + out[cols.indexOf(`brandDeviation[${k.cellBrand[g]},${ch}]`)]! + out[cols.indexOf(`marketDeviation[${k.cellMarket[g]},${ch}]`)]!;
         expect(out[cols.cellChannel("logBetaGroup", g, ch)]).toBeCloseTo(group, 12);

@@ -68,10 +68,20 @@ export function referenceLogDensity(model: PortfolioDensity, data: PortfolioData
     }
   });
   if (pooled) {
-    for (const [at, count] of [[lay.zBrand, brands.length * C], [lay.zMarket, markets.length * C], [lay.zCell, data.cells.length * C]] as const) {
+    for (const [at, count] of [[lay.zBrand, brands.length * C], [lay.zMarket, markets.length * C]] as const) {
       if (at < 0) continue;
       for (let i = 0; i < count; i++) lp += logNormal(q[at + i]!, 0, 1);
     }
+    // zG = cell deviation / τG; where the sampler moves log β itself (centred), the map
+    // u → zG has log-Jacobian log(s0/τG), i.e. −log τG up to a constant
+    data.cells.forEach((_, g) => {
+      channels.forEach((ch, c) => {
+        const tau = value(`tauCell[${ch}]`);
+        const zG = value(`cellDeviation[${g},${ch}]`) / tau;
+        lp += logNormal(zG, 0, 1);
+        if (lay.cellCentred[g * C + c] === 1) jac -= Math.log(tau);
+      });
+    });
   }
   const nu = opts.likelihood === "student-t" ? value(pooled ? "nu" : `nu[${off}]`) : 0;
   if (opts.likelihood === "student-t") {

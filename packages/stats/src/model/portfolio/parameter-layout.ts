@@ -1,3 +1,4 @@
+import { mediaSignalStrength } from "./cell-parametrisation";
 import type { PortfolioConstants } from "./portfolio-constants";
 import type { ResolvedPortfolioOptions } from "./portfolio-options";
 
@@ -22,6 +23,12 @@ export interface ParameterLayout {
   readonly zBrand: number;
   readonly zMarket: number;
   readonly zCell: number;
+  /**
+   * Per cell × channel: 1 when the cell effect is sampled centred (log β ~ Normal(group, τG),
+   * coordinate u with log β = m0 + s0·u), 0 when non-centred (log β = group + τG·z). Both give
+   * the same posterior; centred suits cell effects the data pin down, non-centred weak ones.
+   */
+  readonly cellCentred: Uint8Array;
   /** Start of the per-cell blocks: [β0, β1, γ_1..J, δ_1..J, log σ, controls_1..K]. */
   readonly cells: number;
   readonly cellStride: number;
@@ -58,8 +65,13 @@ export function buildParameterLayout(
   const zBrand = take(B * C, brandOn);
   const zMarket = take(M * C, marketOn);
   const zCell = take(G * C, pooled);
+  const cellCentred = new Uint8Array(G * C);
+  if (pooled) {
+    const strength = mediaSignalStrength(constants);
+    for (let i = 0; i < G * C; i++) cellCentred[i] = strength[i]! >= options.centredCellMinSignal ? 1 : 0;
+  }
   const cellStride = 3 + 2 * constants.seasonalityOrder + constants.controlCount;
   const cells = take(G * cellStride);
   const nu = take(1, options.likelihood === "student-t");
-  return { structure, mu, tauBrand, tauMarket, tauCell, alpha, lambda, hillShape, zBrand, zMarket, zCell, cells, cellStride, nu, dimension: next };
+  return { structure, mu, tauBrand, tauMarket, tauCell, alpha, lambda, hillShape, zBrand, zMarket, zCell, cellCentred, cells, cellStride, nu, dimension: next };
 }

@@ -44,6 +44,9 @@ export class PortfolioDensity implements DensityModel {
   private readonly gradLogTheta: Float64Array;
   private readonly gradLogShape: Float64Array;
   private readonly mediaMean: Float64Array;
+  private readonly logBetaGroup: Float64Array;
+  /** Standardised cell deviation (log β − group)/τG per cell × channel. */
+  private readonly cellZ: Float64Array;
   // per cell × channel × week media buffers (length C · totalWeeks)
   private readonly adstock: Float64Array;
   private readonly adstockDerivative: Float64Array;
@@ -89,6 +92,8 @@ export class PortfolioDensity implements DensityModel {
     this.gradLogTheta = new Float64Array(G * C);
     this.gradLogShape = new Float64Array(C);
     this.mediaMean = new Float64Array(G * C);
+    this.logBetaGroup = new Float64Array(G * C);
+    this.cellZ = new Float64Array(G * C);
     this.adstock = new Float64Array(C * N);
     this.adstockDerivative = new Float64Array(C * N);
     this.response = new Float64Array(C * N);
@@ -148,17 +153,35 @@ export class PortfolioDensity implements DensityModel {
     const M = k.markets.length;
     if (lay.zBrand >= 0) lp += standardNormalBlock(q, lay.zBrand, B * C, grad);
     if (lay.zMarket >= 0) lp += standardNormalBlock(q, lay.zMarket, M * C, grad);
-    if (lay.zCell >= 0) lp += standardNormalBlock(q, lay.zCell, G * C, grad);
     for (let g = 0; g < G; g++) {
       const b = k.cellBrand[g]!;
       const m = k.cellMarket[g]!;
       for (let c = 0; c < C; c++) {
-        let logBeta = this.mu[c]!;
-        if (lay.zBrand >= 0) logBeta += this.tauBrand[c]! * q[lay.zBrand + b * C + c]!;
-        if (lay.zMarket >= 0) logBeta += this.tauMarket[c]! * q[lay.zMarket + m * C + c]!;
-        if (lay.zCell >= 0) logBeta += this.tauCell[c]! * q[lay.zCell + g * C + c]!;
-        this.beta[g * C + c] = Math.exp(logBeta);
-        this.theta[g * C + c] = this.lambda[c]! * k.spendMean[g * C + c]!;
+        const gc = g * C + c;
+        let group = this.mu[c]!;
+        if (lay.zBrand >= 0) group += this.tauBrand[c]! * q[lay.zBrand + b * C + c]!;
+        if (lay.zMarket >= 0) group += this.tauMarket[c]! * q[lay.zMarket + m * C + c]!;
+        let logBeta = group;
+        if (lay.zCell >= 0) {
+          const u = q[lay.zCell + gc]!;
+          const tau = this.tauCell[c]!;
+          if (lay.cellCentred[gc] === 1) {
+            // centred: log β = m0 + s0·u ~ Normal(group, τG)
+            logBeta = k.muPriorMean[c]! + k.muPriorSd[c]! * u;
+            const z = (logBeta - group) / tau;
+            this.cellZ[gc] = z;
+            lp -= 0.5 * z * z + Math.log(tau);
+          } else {
+            // non-centred: log β = group + τG·z, z ~ Normal(0, 1)
+            logBeta = group + tau * u;
+            this.cellZ[gc] = u;
+            lp -= 0.5 * u * u;
+            if (grad) grad[lay.zCell + gc] = -u;
+          }
+        }
+        this.logBetaGroup[gc] = group;
+        this.beta[gc] = Math.exp(logBeta);
+        this.theta[gc] = this.lambda[c]! * k.spendMean[gc]!;
       }
     }
     return lp;
@@ -439,7 +462,21 @@ export class PortfolioDensity implements DensityModel {
       let gLogLambda = 0;
       for (let g = 0; g < G; g++) {
         const gc = g * C + c;
-        const gb = this.gradLogBeta[gc]!;
+        // gb: derivative with respect to the group mean μ + τB·zB + τM·zM of this cell
+        let gb = this.gradLogBeta[gc]!;
+        if (lay.zCell >= 0) {
+          const zi = lay.zCell + gc;
+          const tau = this.tauCell[c]!;
+          const z = this.cellZ[gc]!;
+          if (lay.cellCentred[gc] === 1) {
+            grad[zi] = grad[zi]! + k.muPriorSd[c]! * (gb - z / tau);
+            gTauG += z * z - 1;
+            gb = z / tau;
+          } else {
+            grad[zi] = grad[zi]! + gb * tau;
+            gTauG += gb * z * tau;
+          }
+        }
         gMu += gb;
         if (lay.zBrand >= 0) {
           const zi = lay.zBrand + k.cellBrand[g]! * C + c;
@@ -451,17 +488,12 @@ export class PortfolioDensity implements DensityModel {
           gTauM += gb * q[zi]!;
           grad[zi] = grad[zi]! + gb * this.tauMarket[c]!;
         }
-        if (lay.zCell >= 0) {
-          const zi = lay.zCell + g * C + c;
-          gTauG += gb * q[zi]!;
-          grad[zi] = grad[zi]! + gb * this.tauCell[c]!;
-        }
         gLogLambda += this.gradLogTheta[gc]!;
       }
       grad[lay.mu + c] = grad[lay.mu + c]! + gMu * k.muPriorSd[c]!;
       if (lay.tauBrand >= 0) grad[lay.tauBrand + c] = grad[lay.tauBrand + c]! + gTauB * this.tauBrand[c]!;
       if (lay.tauMarket >= 0) grad[lay.tauMarket + c] = grad[lay.tauMarket + c]! + gTauM * this.tauMarket[c]!;
-      if (lay.tauCell >= 0) grad[lay.tauCell + c] = grad[lay.tauCell + c]! + gTauG * this.tauCell[c]!;
+      if (lay.tauCell >= 0) grad[lay.tauCell + c] = grad[lay.tauCell + c]! + gTauG;
       const a = this.alpha[c]!;
       grad[lay.alpha + c] = grad[lay.alpha + c]! + this.gradAlpha[c]! * a * (1 - a);
       grad[lay.lambda + c] = grad[lay.lambda + c]! + gLogLambda * LAMBDA_PRIOR_SD;
@@ -589,6 +621,7 @@ export class PortfolioDensity implements DensityModel {
     readonly beta: Float64Array;
     readonly theta: Float64Array;
     readonly mediaMean: Float64Array;
+    readonly logBetaGroup: Float64Array;
   } {
     this.readChannelBlocks(q, undefined);
     this.computeMedia(false);
@@ -603,6 +636,7 @@ export class PortfolioDensity implements DensityModel {
       beta: this.beta,
       theta: this.theta,
       mediaMean: this.mediaMean,
+      logBetaGroup: this.logBetaGroup,
     };
   }
 
@@ -670,17 +704,10 @@ function writeConstrained(model: PortfolioDensity, q: Float64Array, out: Float64
   for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = 1 / fx.beta[g * C + c]!;
   for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = fx.theta[g * C + c]!;
   if (pooled) {
-    for (let g = 0; g < G; g++) {
-      for (let c = 0; c < C; c++) {
-        let group = fx.mu[c]!;
-        if (lay.zBrand >= 0) group += fx.tauBrand[c]! * q[lay.zBrand + k.cellBrand[g]! * C + c]!;
-        if (lay.zMarket >= 0) group += fx.tauMarket[c]! * q[lay.zMarket + k.cellMarket[g]! * C + c]!;
-        out[o++] = group;
-      }
-    }
+    for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = fx.logBetaGroup[g * C + c]!;
     if (lay.zBrand >= 0) for (let b = 0; b < B; b++) for (let c = 0; c < C; c++) out[o++] = fx.tauBrand[c]! * q[lay.zBrand + b * C + c]!;
     if (lay.zMarket >= 0) for (let m = 0; m < M; m++) for (let c = 0; c < C; c++) out[o++] = fx.tauMarket[c]! * q[lay.zMarket + m * C + c]!;
-    for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = fx.tauCell[c]! * q[lay.zCell + g * C + c]!;
+    for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = Math.log(fx.beta[g * C + c]!) - fx.logBetaGroup[g * C + c]!;
   }
   for (let g = 0; g < G; g++) {
     const block = lay.cells + g * lay.cellStride;

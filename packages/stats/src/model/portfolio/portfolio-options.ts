@@ -43,6 +43,12 @@ export interface PortfolioModelOptions {
   /** The last k weeks of every cell are left out of the likelihood and forecast (default 0). */
   readonly holdoutWeeks?: number;
   readonly liftTests?: readonly LiftTest[];
+  /**
+   * Sampler geometry only (the posterior is the same either way): a cell × channel effect
+   * whose least-squares t-statistic in its cell reaches this value is sampled centred,
+   * others non-centred (default 3; Infinity = all non-centred, as written in model.md).
+   */
+  readonly centredCellMinSignal?: number;
 }
 
 export interface ResolvedPortfolioOptions {
@@ -55,6 +61,7 @@ export interface ResolvedPortfolioOptions {
   readonly pooling: PoolingLevels;
   readonly holdoutWeeks: number;
   readonly liftTests: readonly LiftTest[];
+  readonly centredCellMinSignal: number;
 }
 
 export const DEFAULT_CAC_RANGE: readonly [number, number] = [5, 2000];
@@ -89,7 +96,9 @@ export function resolvePortfolioOptions(channels: readonly string[], options: Po
     }
     return [lo, hi] as const;
   });
-  return { maxLag, saturation, likelihood, seasonalityOrder, cacRange, pooling, holdoutWeeks, liftTests: options.liftTests ?? [] };
+  const centredCellMinSignal = options.centredCellMinSignal ?? 3;
+  if (Number.isNaN(centredCellMinSignal)) throw new RangeError("centredCellMinSignal must be a number");
+  return { maxLag, saturation, likelihood, seasonalityOrder, cacRange, pooling, holdoutWeeks, liftTests: options.liftTests ?? [], centredCellMinSignal };
 }
 
 /** Mean and sd of the prior of μ_c = log β from the CAC range [lo, hi] read as a 90 % interval. */
