@@ -110,8 +110,8 @@ export class ProgressDisplay {
       done += c.iteration;
       total += c.total;
     }
-    if (done === 0 || total === 0) return Number.NaN;
     const elapsed = (this.clock() - this.modelStarted) / 1000;
+    if (done === 0 || total === 0 || elapsed <= 0) return Number.NaN;
     return (elapsed * (total - done)) / done;
   }
 

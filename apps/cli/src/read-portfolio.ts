@@ -19,7 +19,9 @@ export function issueLine(file: string, issue: Pick<Issue, "row" | "column" | "m
   const where: string[] = [];
   if (issue.row !== null) where.push(`row ${issue.row}`);
   if (issue.column !== null) where.push(`column "${issue.column}"`);
-  return `${file}: ${where.length > 0 ? `${where.join(", ")}: ` : ""}${issue.message}`;
+  // the intake's messages often start with the row already; say it once
+  const message = issue.row !== null ? issue.message.replace(new RegExp(`^Row ${issue.row}: `), "") : issue.message;
+  return `${file}: ${where.length > 0 ? `${where.join(", ")}: ` : ""}${message}`;
 }
 
 function fileProblem(file: string, error: unknown): UsageError {
