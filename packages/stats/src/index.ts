@@ -65,15 +65,4 @@ export type {
 export { FitCancelledError, isFitCancelled } from "./fit/fit-cancelled";
 export { runChainsInThread } from "./fit/chain-runner";
 export type { RunChains } from "./fit/chain-runner";
-export {
-  pooledPortfolioKind,
-  unpooledPortfolioCellKind,
-  pooledPortfolioSpec,
-  unpooledCellSpec,
-  pooledPortfolioModelFromSpec,
-  unpooledCellModelFromSpec,
-  portfolioModelBuilders,
-} from "./fit/portfolio-model-spec";
-export { registryKnowsPortfolioModels, buildFitModel } from "./fit/fit-model";
-export type { PortfolioSpecData } from "./fit/portfolio-model-spec";
 export * from "./prior-check";

@@ -1,14 +1,14 @@
 import type { ModelSpec } from "../model/density-model";
+import { buildModel } from "../models/registry";
 import { emptyCancelledChain } from "../parallel/endpoint-pool";
 import { sampleChain } from "../sampler/sample-chain";
 import { resolveSamplerSettings, type ChainProgress, type ChainResult, type SamplerSettings } from "../sampler/sampler-settings";
-import { buildFitModel } from "./fit-model";
 
 /**
  * How the chains of one model are run: all `settings.chains` chains of `spec`, reporting
  * progress, stopping promptly once `signal` aborts (the chains then come back marked
  * `cancelled`). Injected so that the same fit runs in this thread, in Node worker threads
- * or in browser workers.
+ * (SamplerWorkerPool.run) or in browser workers (sampleChainsOnEndpoints).
  */
 export type RunChains = (
   spec: ModelSpec,
@@ -24,7 +24,7 @@ export type RunChains = (
  */
 export const runChainsInThread: RunChains = async (spec, settings, onProgress, signal) => {
   const s = resolveSamplerSettings(settings);
-  const model = buildFitModel(spec);
+  const model = buildModel(spec);
   const results: ChainResult[] = [];
   const stopped = (): boolean => signal?.aborted === true;
   for (let chain = 0; chain < s.chains; chain++) {

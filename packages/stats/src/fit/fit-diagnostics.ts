@@ -7,7 +7,7 @@ function rerunWarning(run: ModelRun, what: string): string[] {
   if (run.attempts < 2) return [];
   return [
     `${what} had ${run.firstRunDivergences} divergent transition${run.firstRunDivergences === 1 ? "" : "s"} after warm-up at target acceptance ` +
-      `below ${run.targetAcceptance}; it was run again at ${run.targetAcceptance} and the second run is reported.`,
+      `${run.firstTargetAcceptance}; it was run again at ${run.targetAcceptance} and the second run is reported.`,
   ];
 }
 

@@ -1,6 +1,14 @@
 import type { PortfolioData } from "../data/portfolio-data";
 import { summariseRun, type RunSummary } from "../diagnostics/summarise-run";
+import type { ModelSpec } from "../model/density-model";
 import { buildPortfolioModel } from "../model/portfolio/build-portfolio-model";
+import {
+  portfolioPooledKind,
+  portfolioUnpooledKind,
+  type PortfolioModelSpecData,
+  type UnpooledCellSpecData,
+} from "../model/portfolio/portfolio-model-kinds";
+import type { PortfolioModelOptions } from "../model/portfolio/portfolio-options";
 import type { SamplerSettings } from "../sampler/sampler-settings";
 import { runChainsInThread, type RunChains } from "./chain-runner";
 import { unpooledModelDiagnostics, fitDiagnostics, pooledModelDiagnostics, type CellRunSummary } from "./fit-diagnostics";
@@ -8,7 +16,6 @@ import { resolveFitOptions, type FitOptions, type ResolvedFitOptions } from "./f
 import type { FitProgress } from "./fit-progress";
 import type { CellChannelResult, FitResult, FitSettings } from "./fit-result";
 import { runModel, type ModelRun } from "./model-run";
-import { pooledPortfolioSpec, unpooledCellSpec } from "./portfolio-model-spec";
 import { cellHasSpend, channelResults, SummaryTable } from "./result-tables";
 
 export interface FitHooks {
@@ -22,6 +29,16 @@ export interface FitHooks {
 /** Seed of cell g's no-pooling run: distinct per cell, fixed by the fit's seed. */
 export function unpooledCellSeed(seed: number, g: number): number {
   return (seed ^ Math.imul(g + 1, 0x9e3779b9)) >>> 0;
+}
+
+function pooledSpec(portfolio: PortfolioData, options: PortfolioModelOptions): ModelSpec {
+  const data: PortfolioModelSpecData = { portfolio, options };
+  return { kind: portfolioPooledKind, data };
+}
+
+function unpooledSpec(portfolio: PortfolioData, options: PortfolioModelOptions, cell: number): ModelSpec {
+  const data: UnpooledCellSpecData = { portfolio, options, cell };
+  return { kind: portfolioUnpooledKind, data };
 }
 
 function now(): number {
@@ -71,7 +88,7 @@ async function fitUnpooled(data: PortfolioData, o: ResolvedFitOptions, runChains
   const runs: ModelRun[] = [];
   for (let g = 0; g < G; g++) {
     const settings: SamplerSettings = { ...o.sampler, seed: unpooledCellSeed(o.sampler.seed, g) };
-    const run = await runModel(unpooledCellSpec(data, o.model, g), settings, o.retryAtHigherAcceptance, {
+    const run = await runModel(unpooledSpec(data, o.model, g), settings, o.retryAtHigherAcceptance, {
       runChains,
       signal: hooks.signal,
       onProgress: (p, attempt) => {
@@ -125,7 +142,7 @@ export async function fitPortfolio(data: PortfolioData, options: FitOptions = {}
   const runChains = hooks.runChains ?? runChainsInThread;
 
   const pooledStart = now();
-  const pooledRun = await runModel(pooledPortfolioSpec(data, o.model), o.sampler, o.retryAtHigherAcceptance, {
+  const pooledRun = await runModel(pooledSpec(data, o.model), o.sampler, o.retryAtHigherAcceptance, {
     runChains,
     signal: hooks.signal,
     onProgress: (p, attempt) => hooks.onProgress?.({ model: "pooled", ...p, attempt }),

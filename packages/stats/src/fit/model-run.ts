@@ -8,6 +8,8 @@ import { RETRY_TARGET_ACCEPTANCE } from "./fit-options";
 export interface ModelRun {
   readonly chains: readonly ChainResult[];
   readonly targetAcceptance: number;
+  /** Target acceptance of the first run (differs from targetAcceptance after a rerun). */
+  readonly firstTargetAcceptance: number;
   readonly attempts: number;
   /** Post-warm-up divergences of the first run, when it was run again. */
   readonly firstRunDivergences: number;
@@ -43,8 +45,14 @@ export async function runModel(spec: ModelSpec, settings: SamplerSettings, retry
   const first = await once(settings, 1);
   const divergences = postWarmupDivergences(first);
   if (!retry || divergences === 0 || settings.targetAcceptance >= RETRY_TARGET_ACCEPTANCE) {
-    return { chains: first, targetAcceptance: settings.targetAcceptance, attempts: 1, firstRunDivergences: 0 };
+    return { chains: first, targetAcceptance: settings.targetAcceptance, firstTargetAcceptance: settings.targetAcceptance, attempts: 1, firstRunDivergences: 0 };
   }
   const second = await once({ ...settings, targetAcceptance: RETRY_TARGET_ACCEPTANCE }, 2);
-  return { chains: second, targetAcceptance: RETRY_TARGET_ACCEPTANCE, attempts: 2, firstRunDivergences: divergences };
+  return {
+    chains: second,
+    targetAcceptance: RETRY_TARGET_ACCEPTANCE,
+    firstTargetAcceptance: settings.targetAcceptance,
+    attempts: 2,
+    firstRunDivergences: divergences,
+  };
 }
