@@ -66,3 +66,36 @@ export { FitCancelledError, isFitCancelled } from "./fit/fit-cancelled";
 export { runChainsInThread } from "./fit/chain-runner";
 export type { RunChains } from "./fit/chain-runner";
 export * from "./prior-check";
+
+// The portfolio model: pooled and unpooled densities, names, simulation.
+export { buildPortfolioModel, buildUnpooledCellModels, buildUnpooledCellModel, combineIndependentModels, combineIndependentDraws } from "./model/portfolio/build-portfolio-model";
+export { PortfolioDensity } from "./model/portfolio/portfolio-density";
+export { ParameterColumns, portfolioParameterNames } from "./model/portfolio/portfolio-names";
+export { resolvePortfolioOptions, channelEffectPrior, DEFAULT_CAC_RANGE } from "./model/portfolio/portfolio-options";
+export type { PortfolioModelOptions, ResolvedPortfolioOptions, LiftTest, PoolingLevels, LikelihoodKind } from "./model/portfolio/portfolio-options";
+export { portfolioPooledKind, portfolioUnpooledKind } from "./model/portfolio/portfolio-model-kinds";
+export type { PortfolioModelSpecData, UnpooledCellSpecData } from "./model/portfolio/portfolio-model-kinds";
+
+// Decision quantities over a stored draw set.
+export { buildDrawSet, cellIndexOf, channelIndexOf } from "./decisions/draw-set";
+export type { DrawSet, DrawSetCell, NamedDraws } from "./decisions/draw-set";
+export { summariseDraws, quantileSorted } from "./decisions/draw-summary";
+export type { DrawSummary } from "./decisions/draw-summary";
+export { cacLowSpend, averageCac, averageCacRecent, marginalCac } from "./decisions/cac";
+export { responseCurve } from "./decisions/response-curve";
+export type { ResponseCurvePoint } from "./decisions/response-curve";
+export { probabilityProfitable } from "./decisions/probability-profitable";
+export type { ProfitabilityBasis, ProfitabilityResult } from "./decisions/probability-profitable";
+export { forecastSpendPlan } from "./decisions/forecast";
+export type { SpendPlanForecast, ForecastWeek } from "./decisions/forecast";
+export { crpsSample, holdoutAccuracy } from "./decisions/holdout-accuracy";
+export type { HoldoutAccuracy, CellHoldoutAccuracy } from "./decisions/holdout-accuracy";
+export { posteriorPredictiveBands } from "./decisions/posterior-predictive";
+export type { PredictiveBands } from "./decisions/posterior-predictive";
+export { predictCell } from "./decisions/predictive";
+export type { CellPrediction } from "./decisions/predictive";
+
+// Shrinkage and pooling.
+export { poolingFactor } from "./shrinkage/pooling-factor";
+export { portfolioShrinkage, shrinkageInputsFrom } from "./shrinkage/portfolio-shrinkage";
+export type { ShrinkageReport, CellShrinkage, LevelPooling, CandidateOutlier, ShrinkageInputs, OutlierRule } from "./shrinkage/portfolio-shrinkage";
