@@ -1,6 +1,6 @@
-import { autocovariance, createAutocovarianceWorkspace } from "./autocovariance";
-import { isDegenerate, mean, variance } from "./moments";
-import { quantile } from "./quantile";
+import { autocovariance, createAutocovarianceWorkspace, nextSmoothSize } from "./autocovariance";
+import { isDegenerate, mean, pooled, variance } from "./moments";
+import { quantileSorted, sortedCopy } from "./quantile";
 import { rankNormalise } from "./rank-normalise";
 import { splitChains } from "./split-chains";
 
@@ -17,14 +17,8 @@ export function essOfChains(chains: readonly Float64Array[]): number {
   for (const c of chains) if (c.length !== n) throw new Error("all chains must have the same number of draws");
   if (n < 3 || isDegenerate(chains)) return Number.NaN;
 
-  const workspace = createAutocovarianceWorkspace(n);
-  const acov = chains.map((c) => autocovariance(c, workspace));
+  const meanAcov = meanAutocovariance(chains, n);
   const chainMeans = Float64Array.from(chains, (c) => mean(c));
-  const meanAcov = (lag: number): number => {
-    let s = 0;
-    for (let j = 0; j < m; j++) s += acov[j]![lag]!;
-    return s / m;
-  };
   const meanVar = (meanAcov(0) * n) / (n - 1);
   let varPlus = (meanVar * (n - 1)) / n;
   if (m > 1) varPlus += variance(chainMeans);
@@ -63,6 +57,49 @@ export function essOfChains(chains: readonly Float64Array[]): number {
   return draws / tau;
 }
 
+/** Lags computed by direct sums before switching to FFT (well-mixing chains need few lags). */
+const directLagLimit = 48;
+
+/**
+ * Mean over chains of the autocovariance at a lag, on demand: direct sums for the first
+ * lags (O(N) each), all lags by FFT once a longer sequence is needed. Both give the same
+ * values as posterior's FFT estimate up to rounding.
+ */
+function meanAutocovariance(chains: readonly Float64Array[], n: number): (lag: number) => number {
+  const m = chains.length;
+  const centred = chains.map((c) => {
+    const mu = mean(c);
+    return Float64Array.from(c, (x) => x - mu);
+  });
+  const scale = nextSmoothSize(n) / (n * n);
+  const direct = new Float64Array(directLagLimit);
+  let known = 0;
+  let full: Float64Array | undefined;
+  return (lag: number): number => {
+    if (full !== undefined) return full[lag]!;
+    if (lag < directLagLimit) {
+      while (known <= lag) {
+        let sum = 0;
+        for (const c of centred) {
+          let s = 0;
+          for (let i = 0; i + known < n; i++) s += c[i]! * c[i + known]!;
+          sum += s;
+        }
+        direct[known] = (sum * scale) / m;
+        known++;
+      }
+      return direct[lag]!;
+    }
+    const workspace = createAutocovarianceWorkspace(n);
+    full = new Float64Array(n);
+    for (const c of chains) {
+      const acov = autocovariance(c, workspace);
+      for (let i = 0; i < n; i++) full[i] = full[i]! + acov[i]! / m;
+    }
+    return full[lag]!;
+  };
+}
+
 /** ESS for the mean: split chains, no rank normalisation (posterior's ess_mean / ess_basic). */
 export function essMean(chains: readonly Float64Array[]): number {
   return essOfChains(splitChains(chains));
@@ -74,17 +111,11 @@ export function essBulk(chains: readonly Float64Array[]): number {
   return essOfChains(rankNormalise(splitChains(chains)));
 }
 
-/** ESS of the indicator I(x ≤ q_p), for a quantile estimate (Vehtari et al. 2021, §4.3). */
-export function essQuantile(chains: readonly Float64Array[], probability: number): number {
+/** ESS of the indicator I(x ≤ q_p), for a quantile estimate (Vehtari et al. 2021, §4.3); `sortedPooled` may pass all draws sorted. */
+export function essQuantile(chains: readonly Float64Array[], probability: number, sortedPooled?: Float64Array): number {
   if (!(probability >= 0 && probability <= 1)) throw new Error(`probability must be in [0, 1], got ${String(probability)}`);
   if (isDegenerate(chains)) return Number.NaN;
-  const all = new Float64Array(chains.reduce((a, c) => a + c.length, 0));
-  let offset = 0;
-  for (const c of chains) {
-    all.set(c, offset);
-    offset += c.length;
-  }
-  const q = quantile(all, probability);
+  const q = quantileSorted(sortedPooled ?? sortedCopy(pooled(chains)), probability);
   const indicators = chains.map((c) => Float64Array.from(c, (v) => (v <= q ? 1 : 0)));
   return essOfChains(splitChains(indicators));
 }

@@ -3,10 +3,10 @@ import { normalQuantile } from "./normal-quantile";
 /**
  * Rank normalisation (Vehtari et al. 2021, Bayesian Analysis 16(2), eq. 14): pooled ranks
  * over all chains, ties averaged, mapped through Φ⁻¹((r − 3/8) / (S + 1/4)) (Blom 1958).
- * Returns chains of the same shapes.
+ * Returns chains of the same shapes. `sortedPooled` may pass all draws already sorted.
  */
-export function rankNormalise(chains: readonly Float64Array[]): Float64Array[] {
-  const ranks = pooledRanks(chains);
+export function rankNormalise(chains: readonly Float64Array[], sortedPooled?: Float64Array): Float64Array[] {
+  const ranks = pooledRanks(chains, sortedPooled);
   const total = ranks.length;
   const out: Float64Array[] = [];
   let offset = 0;
@@ -20,18 +20,23 @@ export function rankNormalise(chains: readonly Float64Array[]): Float64Array[] {
 }
 
 /** Ranks (1-based, ties averaged) of all draws of all chains pooled, in chain order. */
-export function pooledRanks(chains: readonly Float64Array[]): Float64Array {
+export function pooledRanks(chains: readonly Float64Array[], sortedPooled?: Float64Array): Float64Array {
   let total = 0;
   for (const c of chains) total += c.length;
-  const sorted = new Float64Array(total);
-  let offset = 0;
-  for (const c of chains) {
-    sorted.set(c, offset);
-    offset += c.length;
+  let sorted = sortedPooled;
+  if (sorted === undefined) {
+    sorted = new Float64Array(total);
+    let at = 0;
+    for (const c of chains) {
+      sorted.set(c, at);
+      at += c.length;
+    }
+    sorted.sort();
+  } else if (sorted.length !== total) {
+    throw new Error("sorted draws must hold every draw of the chains");
   }
-  sorted.sort();
   const ranks = new Float64Array(total);
-  offset = 0;
+  let offset = 0;
   for (const c of chains) {
     for (let i = 0; i < c.length; i++) {
       const v = c[i]!;

@@ -3,6 +3,7 @@ import fixtureFile from "../fixtures/convergence-fixtures.json";
 import { essBulk, essMean, essQuantile, essTail } from "../../src/diagnostics/ess";
 import { mcseMean, mcseQuantile } from "../../src/diagnostics/mcse";
 import { rhat, rhatBasic } from "../../src/diagnostics/rhat";
+import { summariseParameter } from "../../src/diagnostics/summarise-run";
 
 // Reference values: R package posterior 1.4.0 on the draws in the fixture
 // (Vehtari et al. 2021, Bayesian Analysis 16(2):667–718); see test/fixtures/README.md.
@@ -31,6 +32,18 @@ describe("convergence diagnostics match R's posterior 1.4.0", () => {
       it("MCSE of the mean (posterior::mcse_mean)", () => expectRelative(mcseMean(chains), fixture.expected.mcse_mean));
       it("MCSE of the 5 % quantile (posterior::mcse_quantile)", () =>
         expectRelative(mcseQuantile(chains, 0.05), fixture.expected["mcse_quantile_0.05"]));
+      it("summary table row gives the same values (shared sorting and ranking)", () => {
+        const row = summariseParameter(name, chains);
+        expectRelative(row.rhat, fixture.expected.rhat);
+        expectRelative(row.essBulk, fixture.expected.ess_bulk);
+        expectRelative(row.essTail, fixture.expected.ess_tail);
+        expectRelative(row.mcseMean, fixture.expected.mcse_mean);
+        expectRelative(row.mcseQ05, fixture.expected["mcse_quantile_0.05"]);
+        expectRelative(row.mcseQ95, fixture.extra["mcse_quantile_0.95"]!);
+        expectRelative(row.mean, fixture.extra["mean"]!);
+        expectRelative(row.sd, fixture.extra["sd"]!);
+        expectRelative(row.q05, fixture.extra["quantile2_0.05"]!);
+      });
       it("building blocks (posterior::rhat_basic, ess_mean, ess_quantile, mcse_quantile)", () => {
         expectRelative(rhatBasic(chains, true), fixture.extra["rhat_basic_split"]!);
         expectRelative(rhatBasic(chains, false), fixture.extra["rhat_basic_nosplit"]!);
