@@ -1,4 +1,5 @@
 import type { PortfolioData } from "../data/portfolio-data";
+import { buildDrawSet } from "../decisions/draw-set";
 import { summariseRun, type RunSummary } from "../diagnostics/summarise-run";
 import type { ModelSpec } from "../model/density-model";
 import { buildPortfolioModel } from "../model/portfolio/build-portfolio-model";
@@ -10,12 +11,14 @@ import {
 } from "../model/portfolio/portfolio-model-kinds";
 import type { PortfolioModelOptions } from "../model/portfolio/portfolio-options";
 import type { SamplerSettings } from "../sampler/sampler-settings";
+import { portfolioShrinkage, shrinkageInputsFrom, type ShrinkageReport } from "../shrinkage/portfolio-shrinkage";
 import { runChainsInThread, type RunChains } from "./chain-runner";
 import { unpooledModelDiagnostics, fitDiagnostics, pooledModelDiagnostics, type CellRunSummary } from "./fit-diagnostics";
 import { resolveFitOptions, type FitOptions, type ResolvedFitOptions } from "./fit-options";
 import type { FitProgress } from "./fit-progress";
 import type { CellChannelResult, FitResult, FitSettings } from "./fit-result";
 import { runModel, type ModelRun } from "./model-run";
+import { joinCellRuns, stackChains } from "./named-draws";
 import { cellHasSpend, channelResults, SummaryTable } from "./result-tables";
 
 export interface FitHooks {
@@ -160,9 +163,14 @@ export async function fitPortfolio(data: PortfolioData, options: FitOptions = {}
   }
   const unpooled = unpooledFit === null ? null : new SummaryTable(unpooledFit.cells.flatMap((c) => c.summary.parameters));
 
+  const pooledDraws = stackChains(pooledRun.chains);
+  const shrinkage: ShrinkageReport | null =
+    unpooledFit === null ? null : portfolioShrinkage(shrinkageInputsFrom(data, o.model, pooledDraws, joinCellRuns(unpooledFit.runs.map((r) => r.chains))));
   const cells: CellChannelResult[] = [];
   data.cells.forEach((cell, g) => {
     data.channels.forEach((channel, c) => {
+      const moved = shrinkage?.cells.find((s) => s.cell === g && s.channel === channel);
+      const outlier = shrinkage?.candidateOutliers.find((s) => s.cell === g && s.channel === channel);
       cells.push({
         cell: g,
         brand: cell.brand,
@@ -171,9 +179,9 @@ export async function fitPortfolio(data: PortfolioData, options: FitOptions = {}
         hasSpend: cellHasSpend(data, g, c),
         cac0: pooled.get(`cac0[${g},${channel}]`),
         cac0Unpooled: unpooled === null ? null : unpooled.get(`cac0[${g},${channel}]`),
-        shrinkage: null,
-        outlier: false,
-        outlierReason: null,
+        shrinkage: moved === undefined ? null : moved.shrinkage,
+        outlier: outlier !== undefined,
+        outlierReason: outlier?.reason ?? null,
       });
     });
   });
@@ -188,6 +196,7 @@ export async function fitPortfolio(data: PortfolioData, options: FitOptions = {}
     timing: { samplingSeconds: pooledSeconds + unpooledSeconds, pooledSeconds, unpooledSeconds, totalSeconds: (now() - started) / 1000 },
     channels: channelResults(data.channels, pooled),
     cells,
-    poolingFactors: [],
+    poolingFactors: shrinkage?.levels ?? [],
+    drawSet: buildDrawSet(data, o.model, pooledDraws),
   };
 }

@@ -1,3 +1,4 @@
+import type { DrawSet } from "../decisions/draw-set";
 import type { LikelihoodKind, PoolingLevels } from "../model/portfolio/portfolio-options";
 import type { SaturationKind } from "../model/saturation";
 
@@ -105,8 +106,9 @@ export interface CellChannelResult {
   readonly cac0: PosteriorSummary;
   /** CAC0 of the no-pooling comparison; null when it was not fitted. */
   readonly cac0Unpooled: PosteriorSummary | null;
-  /** (m_unpooled − m_pooled)/(m_unpooled − m_group) of log β, not clipped; null without the comparison. */
+  /** (m_unpooled − m_pooled)/(m_unpooled − m_group) of log β, not clipped (NaN when undefined); null without the comparison. */
   readonly shrinkage: number | null;
+  /** A candidate outlier (shrinkage module's rule); the analyst decides. Always false without the comparison. */
   readonly outlier: boolean;
   readonly outlierReason: string | null;
 }
@@ -124,5 +126,8 @@ export interface FitResult {
   readonly timing: FitTiming;
   readonly channels: readonly ChannelResult[];
   readonly cells: readonly CellChannelResult[];
+  /** Per level and channel; computed with the no-pooling comparison (empty without it). */
   readonly poolingFactors: readonly PoolingFactorResult[];
+  /** The pooled posterior in the compact form planning works from (decisions/draw-set). */
+  readonly drawSet: DrawSet;
 }

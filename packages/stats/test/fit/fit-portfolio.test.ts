@@ -145,6 +145,60 @@ describe("fitPortfolio", () => {
     expect(result.cells.find((c) => c.cell === 1 && c.channel === "search")!.cac0Unpooled!.mean).toBeCloseTo(sum / count, 8);
   });
 
+  it("reports each cell's shrinkage from the means of log β of the two fits and the group mean, unclipped", () => {
+    // model specification: shrinkage = (m_unpooled − m_pooled) / (m_unpooled − m_group), m = posterior mean of log β
+    const meanOf = (runs: ChainResult[], name: string, f: (x: number) => number): number => {
+      const names = runs[0]!.names;
+      const column = names.indexOf(name);
+      let sum = 0;
+      let count = 0;
+      for (const chain of runs) {
+        for (let d = 0; d * names.length < chain.draws.length; d++) {
+          sum += f(chain.draws[d * names.length + column]!);
+          count++;
+        }
+      }
+      return sum / count;
+    };
+    for (const row of result.cells) {
+      const mPooled = meanOf(chainRuns[0]!, `beta[${row.cell},${row.channel}]`, Math.log);
+      const mGroup = meanOf(chainRuns[0]!, `logBetaGroup[${row.cell},${row.channel}]`, (x) => x);
+      const mUnpooled = meanOf(chainRuns[1 + row.cell]!, `eta[${row.cell},${row.channel}]`, (x) => x);
+      expect(row.shrinkage).toBeCloseTo((mUnpooled - mPooled) / (mUnpooled - mGroup), 8);
+      expect(typeof row.outlier).toBe("boolean");
+      if (row.outlier) expect(row.outlierReason).toMatch(new RegExp(`${row.brand} × ${row.market}`));
+      else expect(row.outlierReason).toBeNull();
+    }
+    // a cell without spend on a channel has no data to contradict its group
+    expect(result.cells.find((c) => !c.hasSpend)!.outlier).toBe(false);
+  });
+
+  it("reports the pooling factor of each level and channel", () => {
+    expect(result.poolingFactors.map((p) => `${p.level}/${p.channel}`)).toEqual([
+      "brand/search",
+      "brand/video",
+      "market/search",
+      "market/video",
+      "cell/search",
+      "cell/video",
+    ]);
+    // Gelman & Pardoe (2006): λ = 1 − Var(E[ε]) / E[Var(ε)] is at most 1
+    for (const p of result.poolingFactors) expect(p.poolingFactor).toBeLessThanOrEqual(1);
+  });
+
+  it("keeps the pooled draws as a draw set for planning", () => {
+    const set = result.drawSet;
+    expect(set.model).toBe("pooled");
+    expect(set.drawCount).toBe(2 * 60);
+    expect(set.channels).toEqual(["search", "video"]);
+    expect(set.cells.map((c) => `${c.brand}/${c.market}`)).toEqual(["Alder/Northland", "Alder/Southmere", "Birchwood/Northland"]);
+    expect(set.beta).toHaveLength(120 * 3 * 2);
+    // draw d of cell g, channel c sits at (d·G + g)·C + c; CAC0 = 1/β agrees with the table
+    let sum = 0;
+    for (let d = 0; d < set.drawCount; d++) sum += 1 / set.beta[(d * 3 + 2) * 2 + 1]!;
+    expect(sum / set.drawCount).toBeCloseTo(result.cells.find((c) => c.cell === 2 && c.channel === "video")!.cac0.mean, 8);
+  });
+
   it("reports diagnostics for both models and the run as a whole", () => {
     const d = result.diagnostics;
     for (const m of [d.pooled, d.unpooled!]) {
@@ -219,7 +273,9 @@ describe("fitPortfolio options and hooks", () => {
     expect(calls.every((c) => c.spec.kind === "portfolio-pooled")).toBe(true);
     expect(r.diagnostics.unpooled).toBeNull();
     expect(r.timing.unpooledSeconds).toBe(0);
-    expect(r.cells.every((c) => c.cac0Unpooled === null && c.shrinkage === null)).toBe(true);
+    expect(r.cells.every((c) => c.cac0Unpooled === null && c.shrinkage === null && !c.outlier && c.outlierReason === null)).toBe(true);
+    expect(r.poolingFactors).toEqual([]);
+    expect(r.drawSet.drawCount).toBe(20);
     expect(r.diagnostics.reasons.every((reason) => reason.startsWith("Pooled model: "))).toBe(true);
   });
 
