@@ -99,6 +99,8 @@ async function runFit(data: PortfolioData, options: FitOptions, io: CommandIo): 
 
 function outputDocument(args: FitArguments, file: PortfolioFile, result: FitResult): unknown {
   const data = file.data;
+  // the draw set (typed arrays for planning) is for the product's store, not this summary file
+  const { drawSet: _drawSet, ...summary } = result;
   return {
     format: "tributary-fit",
     version: 1,
@@ -114,7 +116,7 @@ function outputDocument(args: FitArguments, file: PortfolioFile, result: FitResu
       outcomeColumn: file.mapping.outcome,
       spendColumns: file.mapping.channels.map((c) => ({ channel: c.channel, column: c.column })),
     },
-    ...result,
+    ...summary,
   };
 }
 
