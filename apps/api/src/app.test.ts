@@ -9,14 +9,15 @@ import { apiErrorSchema, healthSchema } from "@tributary/contracts";
 import { anyone, defineRoute } from "./access/route-table";
 import { createApp } from "./app";
 import { defaultConfig } from "./config";
-import { closeDatabase, createDatabase, type Database } from "./db/client";
+import { closeDatabase, type Database } from "./db/client";
+import { snapshotDatabase } from "./testing/database-snapshot";
 import { safeErrorForLog } from "./http/error-handler";
 import { routeTable } from "./routes";
 
 let db: Database;
 const webDir = mkdtempSync(join(tmpdir(), "tributary-web-"));
 beforeAll(async () => {
-  db = await createDatabase();
+  db = await snapshotDatabase("migrated");
   writeFileSync(join(webDir, "index.html"), "<!doctype html><title>Tributary</title><div id=root></div>");
   writeFileSync(join(webDir, "app.js"), "console.log(1)");
 });

@@ -15,7 +15,11 @@ import type { Database } from "./db/client";
 import { apiNotFound, errorHandler } from "./http/error-handler";
 import { Forbidden } from "./http/errors";
 import { createOutboxMailer, type Mailer } from "./mail/mailer";
+import type { FitJobInput, FitJobOutput, FitJobProgress, FitJobRunner, FitWorkerOptions } from "./jobs/fit-job";
+import { LocalJobRunner } from "./jobs/local-job-runner";
 import { routeTable } from "./routes";
+import { RunService } from "./runs/run-service";
+import { UploadStore } from "./uploads/upload-store";
 
 export interface CreateAppOptions {
   readonly db: Database;
@@ -24,6 +28,27 @@ export interface CreateAppOptions {
   readonly logger?: Logger;
   /** Replaces the route table (tests of the authorization layer). */
   readonly routes?: readonly Route[];
+  /** Runs fit jobs; by default on worker threads of this process (see jobs/). */
+  readonly jobRunner?: FitJobRunner;
+}
+
+const appDepsKey = Symbol.for("tributary.appDeps");
+
+/** Ends the app's background work (fit jobs, worker threads); call before closing its database. */
+export async function shutdownApp(app: Express): Promise<void> {
+  const deps = (app.locals as Record<symbol, AppDeps | undefined>)[appDepsKey];
+  await deps?.runs.close();
+}
+
+/** The local job runner for fits, sized by the config. */
+export function localFitRunner(config: AppConfig): FitJobRunner {
+  const options: FitWorkerOptions = { chainThreads: config.fitChainThreads };
+  return new LocalJobRunner<FitJobInput, FitJobProgress, FitJobOutput>({
+    workerEntry: new URL("./jobs/fit-worker.ts", import.meta.url),
+    concurrency: config.fitConcurrency,
+    workerOptions: options,
+    describeExit: (code) => `The fit stopped unexpectedly (its worker thread exited with code ${code}); it may have run out of memory`,
+  });
 }
 
 /** Refuses writes whose Origin is another site (lucia's CSRF check); same-site and non-browser clients pass. */
@@ -47,9 +72,12 @@ export function createApp(options: CreateAppOptions): Express {
     config,
     auth: createAuth(options.db, config),
     mailer: options.mailer ?? createOutboxMailer(options.db),
+    uploads: new UploadStore({ ttlMs: config.uploadTtlMinutes * 60_000 }),
+    runs: new RunService(options.db, options.jobRunner ?? localFitRunner(config), logger),
   };
 
   const app = express();
+  (app.locals as Record<symbol, AppDeps>)[appDepsKey] = deps;
   app.set("trust proxy", config.trustProxy);
   app.disable("x-powered-by");
   app.use(

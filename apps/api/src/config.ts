@@ -1,5 +1,6 @@
 // Settings read from the environment once at start; tests build them directly.
 import { readFileSync } from "node:fs";
+import { availableParallelism } from "node:os";
 import { fileURLToPath } from "node:url";
 
 export interface AppConfig {
@@ -15,6 +16,14 @@ export interface AppConfig {
   readonly webDistDir: string | null;
   /** pino level: "info" by default, "silent" in tests. */
   readonly logLevel: string;
+  /** Largest accepted upload (CSV of weekly data or lift tests), in bytes. */
+  readonly uploadMaxBytes: number;
+  /** An upload not saved within this many minutes is forgotten. */
+  readonly uploadTtlMinutes: number;
+  /** Fits run at the same time; more wait in the queue. */
+  readonly fitConcurrency: number;
+  /** Threads one fit may use for its chains; default: the cores shared out among the concurrent fits. */
+  readonly fitChainThreads: number;
 }
 
 export const repoRoot = fileURLToPath(new URL("../../../", import.meta.url));
@@ -31,7 +40,17 @@ export const defaultConfig: AppConfig = {
   signInLimit: { attempts: 10, windowMinutes: 15 },
   webDistDir: null,
   logLevel: "info",
+  uploadMaxBytes: 25 * 1024 * 1024,
+  uploadTtlMinutes: 60,
+  fitConcurrency: 1,
+  fitChainThreads: availableParallelism(),
 };
+
+function positiveInteger(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
+  const value = positiveNumber(env, name, fallback);
+  if (!Number.isInteger(value)) throw new Error(`${name} must be a whole number, got "${env[name]}"`);
+  return value;
+}
 
 function positiveNumber(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
   const raw = env[name];
@@ -49,6 +68,7 @@ function trustProxyFrom(raw: string | undefined): boolean | number | string {
 
 /** Config from environment variables (see apps/api/README.md). Throws a clear message on bad values. */
 export function configFromEnv(env: NodeJS.ProcessEnv, webDistDir: string | null): AppConfig {
+  const fitConcurrency = positiveInteger(env, "FIT_CONCURRENCY", defaultConfig.fitConcurrency);
   return {
     ...defaultConfig,
     trustProxy: trustProxyFrom(env.TRUST_PROXY),
@@ -59,5 +79,9 @@ export function configFromEnv(env: NodeJS.ProcessEnv, webDistDir: string | null)
     },
     webDistDir,
     logLevel: env.LOG_LEVEL || defaultConfig.logLevel,
+    uploadMaxBytes: positiveInteger(env, "UPLOAD_MAX_BYTES", defaultConfig.uploadMaxBytes),
+    uploadTtlMinutes: positiveNumber(env, "UPLOAD_TTL_MINUTES", defaultConfig.uploadTtlMinutes),
+    fitConcurrency,
+    fitChainThreads: positiveInteger(env, "FIT_CHAIN_THREADS", Math.max(1, Math.floor(availableParallelism() / fitConcurrency))),
   };
 }

@@ -2,10 +2,11 @@
 // serves the API and the built web app. Settings come from the environment (README).
 import { existsSync } from "node:fs";
 import { join, resolve } from "node:path";
-import { createApp } from "./app";
+import { createApp, shutdownApp } from "./app";
 import { configFromEnv, repoRoot } from "./config";
 import { closeDatabase, createDatabase } from "./db/client";
 import { seedDemo } from "./demo/seed-demo";
+import { markInterruptedRuns } from "./runs/run-service";
 
 async function main(): Promise<void> {
   const port = Number(process.env.PORT || 3000);
@@ -18,6 +19,8 @@ async function main(): Promise<void> {
   const db = await createDatabase({ dataDir });
   const seed = await seedDemo(db);
   if (seed.seeded) console.log(`Created the demo workspace in ${dataDir}`);
+  const interrupted = await markInterruptedRuns(db);
+  if (interrupted > 0) console.log(`Marked ${interrupted} fit run(s) as interrupted (the server stopped while they were running); restart them from the Runs screen`);
   if (!webDistDir) console.warn(`The web app is not built (no ${webDist}/index.html): run \`pnpm build\`. Serving the API only.`);
 
   const app = createApp({ db, config });
@@ -28,7 +31,9 @@ async function main(): Promise<void> {
   });
 
   const shutdown = () => {
-    server.close(() => void closeDatabase(db).finally(() => process.exit(0)));
+    // Running fits are ended; the next start marks them interrupted so they can be restarted.
+    server.close(() => void shutdownApp(app).then(() => closeDatabase(db)).finally(() => process.exit(0)));
+    server.closeAllConnections();
     setTimeout(() => process.exit(1), 5_000).unref();
   };
   process.once("SIGINT", shutdown);

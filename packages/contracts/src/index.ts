@@ -4,3 +4,6 @@ export * from "./auth";
 export * from "./portfolio";
 export * from "./health";
 export * from "./intake";
+export * from "./model-settings";
+export * from "./datasets";
+export * from "./runs";

@@ -6,6 +6,8 @@ import type { AppConfig } from "../config";
 import type { Auth } from "../auth/lucia";
 import type { Database } from "../db/client";
 import type { Mailer } from "../mail/mailer";
+import type { RunService } from "../runs/run-service";
+import type { UploadStore } from "../uploads/upload-store";
 
 /** Everything a handler may use, injected; handlers import no globals. */
 export interface AppDeps {
@@ -13,6 +15,10 @@ export interface AppDeps {
   readonly config: AppConfig;
   readonly auth: Auth;
   readonly mailer: Mailer;
+  /** Uploaded files between upload and save (in memory, per user). */
+  readonly uploads: UploadStore;
+  /** Fit runs: start, cancel, restart, live progress. */
+  readonly runs: RunService;
 }
 
 /** How a route finds the market(s) a request touches. */

@@ -32,7 +32,7 @@ describe("createDatabase", () => {
   it("applies every migration to an empty in-memory database", async () => {
     expect(await tableNames(db)).toEqual(expectedTables);
     const [journal] = (await db.execute<{ n: number }>(sql`select count(*)::int as n from drizzle.__drizzle_migrations`)).rows;
-    expect(journal!.n).toBe(2);
+    expect(journal!.n).toBe(3);
   });
 
   it("keeps data in a directory and re-opens it without re-applying migrations", async () => {

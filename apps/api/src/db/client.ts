@@ -15,11 +15,13 @@ export const migrationsFolder = fileURLToPath(new URL("../../drizzle", import.me
 export interface DatabaseOptions {
   /** Directory for the data files; in-memory when omitted (tests). */
   dataDir?: string;
+  /** A data directory dumped with `dumpDataDir` to start from (tests clone a migrated, seeded database). */
+  snapshot?: Blob;
 }
 
 export async function createDatabase(options: DatabaseOptions = {}): Promise<Database> {
   if (options.dataDir) mkdirSync(options.dataDir, { recursive: true });
-  const client = options.dataDir ? new PGlite(options.dataDir) : new PGlite();
+  const client = new PGlite({ dataDir: options.dataDir, loadDataDir: options.snapshot });
   const db = drizzle({ client, schema });
   await migrate(db, { migrationsFolder });
   return db;

@@ -17,6 +17,7 @@ import {
   text,
   timestamp,
   unique,
+  type AnyPgColumn,
 } from "drizzle-orm/pg-core";
 import { roles } from "@tributary/contracts";
 
@@ -174,6 +175,8 @@ export const datasetVersions = pgTable("dataset_versions", {
   controlNames: text("control_names").array().notNull(),
   columnMapping: jsonb("column_mapping").notNull(),
   validationReport: jsonb("validation_report").notNull(),
+  /** The uploader's note on what changed in this version. */
+  note: text("note"),
   createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
   createdAt: createdAt(),
 });
@@ -218,6 +221,7 @@ export const liftTests = pgTable(
     /** Measured incremental outcome over the test. */
     measuredLift: doublePrecision("measured_lift").notNull(),
     standardError: doublePrecision("standard_error").notNull(),
+    note: text("note"),
     createdBy: text("created_by").references(() => users.id, { onDelete: "set null" }),
     createdAt: createdAt(),
   },
@@ -265,8 +269,14 @@ export const runs = pgTable(
     publishedAt: at("published_at"),
     publishedBy: text("published_by").references(() => users.id, { onDelete: "set null" }),
     publishReason: text("publish_reason"),
+    /** The run this one restarts (same settings), e.g. after the server stopped it. */
+    restartedFromRunId: text("restarted_from_run_id").references((): AnyPgColumn => runs.id, { onDelete: "set null" }),
   },
-  (t) => [check("runs_status_check", inList("status", runStatuses)), index("runs_published_idx").on(t.publishedAt)],
+  (t) => [
+    check("runs_status_check", inList("status", runStatuses)),
+    index("runs_published_idx").on(t.publishedAt),
+    index("runs_status_idx").on(t.status),
+  ],
 );
 
 /** Posterior summaries of a run, one row per kind (e.g. pooled, unpooled, predictive check). */

@@ -1,7 +1,8 @@
 import { readFileSync } from "node:fs";
 import { asc, count, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDatabase, createDatabase, type Database } from "../db/client";
+import { closeDatabase, type Database } from "../db/client";
+import { snapshotDatabase } from "../testing/database-snapshot";
 import * as schema from "../db/schema";
 import { demoChannelTruths, demoDesign, demoRealDifference } from "./demo-design";
 import { demoTruthDocument } from "./demo-truth";
@@ -38,7 +39,7 @@ async function contentOf(db: Database) {
 let first: Database;
 let second: Database;
 beforeAll(async () => {
-  [first, second] = await Promise.all([createDatabase(), createDatabase()]);
+  [first, second] = await Promise.all([snapshotDatabase("migrated"), snapshotDatabase("migrated")]);
   expect(await seedDemo(first)).toEqual({ seeded: true });
   expect(await seedDemo(second)).toEqual({ seeded: true });
 });

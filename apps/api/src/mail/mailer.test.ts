@@ -1,12 +1,13 @@
 import nodemailer from "nodemailer";
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { closeDatabase, createDatabase, type Database } from "../db/client";
+import { closeDatabase, type Database } from "../db/client";
+import { snapshotDatabase } from "../testing/database-snapshot";
 import { outbox } from "../db/schema";
 import { createOutboxMailer } from "./mailer";
 
 let db: Database;
 beforeAll(async () => {
-  db = await createDatabase();
+  db = await snapshotDatabase("migrated");
 });
 afterAll(() => closeDatabase(db));
 

@@ -6,6 +6,11 @@ import { channelRoutes } from "./channels";
 import { healthRoutes } from "./health";
 import { marketRoutes } from "./markets";
 import { portfolioRoutes } from "./portfolio";
+import { datasetRoutes } from "./datasets";
+import { liftTestRoutes } from "./lift-tests";
+import { modelSettingsRoutes } from "./model-settings";
+import { runRoutes } from "./runs";
+import { uploadRoutes } from "./uploads";
 
 export const routeTable: readonly Route[] = [
   ...healthRoutes,
@@ -14,4 +19,9 @@ export const routeTable: readonly Route[] = [
   ...brandRoutes,
   ...marketRoutes,
   ...channelRoutes,
+  ...uploadRoutes,
+  ...datasetRoutes,
+  ...liftTestRoutes,
+  ...modelSettingsRoutes,
+  ...runRoutes,
 ];

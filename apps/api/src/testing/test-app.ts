@@ -1,11 +1,12 @@
 // Test helpers: an app over a fresh in-memory database holding the demo workspace.
 import request from "supertest";
 import type { Express } from "express";
-import { createApp } from "../app";
+import { createApp, shutdownApp } from "../app";
 import type { AppConfig } from "../config";
-import { closeDatabase, createDatabase, type Database } from "../db/client";
-import { seedDemo } from "../demo/seed-demo";
+import { closeDatabase, type Database } from "../db/client";
 import type { DemoUser } from "../demo/users";
+import { markInterruptedRuns } from "../runs/run-service";
+import { snapshotDatabase } from "./database-snapshot";
 
 export interface TestApp {
   readonly app: Express;
@@ -13,14 +14,23 @@ export interface TestApp {
   close(): Promise<void>;
 }
 
+/**
+ * The app over the demo workspace: a fresh copy of the seeded snapshot, or `db` when
+ * given (then closing leaves the database open for its owner). Fit runs left queued or
+ * running in `db` are marked interrupted first, as the server does at start.
+ */
 export async function demoTestApp(config: Partial<AppConfig> = {}, db?: Database): Promise<TestApp> {
-  const database = db ?? (await createDatabase());
-  if (!db) {
-    const seed = await seedDemo(database);
-    if (!seed.seeded) throw new Error(`demo seed failed: ${seed.reason}`);
-  }
+  const database = db ?? (await snapshotDatabase("demo"));
+  await markInterruptedRuns(database);
   const app = createApp({ db: database, config: { logLevel: "silent", ...config } });
-  return { app, db: database, close: () => closeDatabase(database) };
+  return {
+    app,
+    db: database,
+    close: async () => {
+      await shutdownApp(app);
+      if (!db) await closeDatabase(database);
+    },
+  };
 }
 
 /** A supertest agent that keeps cookies, signed in as the given demo user. */

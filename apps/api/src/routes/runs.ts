@@ -1,0 +1,180 @@
+// Fit runs. Decided: every run route but /api/runs/current is for analysts and admins
+// (who see every market); market managers and portfolio leads are refused with 403.
+// /api/runs/current is open to every role and filters the estimates to the viewer's
+// markets centrally (runResultsFor), so no other market's numbers reach a market manager.
+import { eq } from "drizzle-orm";
+import {
+  PUBLISH_REASON_MIN_LENGTH,
+  publishRunInput,
+  runStatuses,
+  startRunInput,
+  type Run,
+  type RunEvent,
+  type RunReport,
+  type RunResults,
+  type RunStatus,
+} from "@tributary/contracts";
+import { defineRoute, markets, signedIn } from "../access/route-table";
+import { auditLog, runs } from "../db/schema";
+import { Conflict, Invalid, NotFound } from "../http/errors";
+import { currentRunId, listRunRecords, runRecord } from "../runs/run-queries";
+import { runReportOf, runResultsFor } from "../runs/run-results";
+
+const fitRoles = ["analyst", "admin"] as const;
+const HEARTBEAT_MS = 15_000;
+
+function statusesOf(raw: unknown): RunStatus[] | undefined {
+  if (raw === undefined) return undefined;
+  const list = (Array.isArray(raw) ? raw : [raw]).flatMap((v) => (typeof v === "string" ? v.split(",") : [])).map((v) => v.trim()).filter(Boolean);
+  for (const status of list) {
+    if (!(runStatuses as readonly string[]).includes(status)) throw new Invalid(`Unknown run status "${status}"; use ${runStatuses.join(", ")}`);
+  }
+  return list as RunStatus[];
+}
+
+export const runRoutes = [
+  defineRoute({
+    method: "post",
+    path: "/api/runs",
+    access: signedIn(markets.unscoped, fitRoles),
+    handler: async ({ req, res, db, user, runs: service }): Promise<Run> => {
+      const input = startRunInput.parse(req.body ?? {});
+      const runId = await service.start({ modelSettingsId: input.modelSettingsId, userId: user.id });
+      res.status(201);
+      return runRecord(db, runId, service.live);
+    },
+  }),
+  defineRoute({
+    method: "get",
+    path: "/api/runs",
+    access: signedIn(markets.unscoped, fitRoles),
+    handler: ({ req, db, runs: service }): Promise<Run[]> => {
+      const dataset = typeof req.query.dataset === "string" && req.query.dataset !== "" ? req.query.dataset : undefined;
+      return listRunRecords(db, service.live, { statuses: statusesOf(req.query.status), datasetVersionId: dataset });
+    },
+  }),
+  // Before /api/runs/:runId, so "current" is not read as an id.
+  defineRoute({
+    method: "get",
+    path: "/api/runs/current",
+    access: signedIn(markets.filtered),
+    handler: async ({ db, scope, runs: service }): Promise<RunResults> => {
+      const id = await currentRunId(db);
+      if (!id) throw new NotFound("No fit has been published yet");
+      return runResultsFor(db, await runRecord(db, id, service.live), scope);
+    },
+  }),
+  defineRoute({
+    method: "get",
+    path: "/api/runs/:runId",
+    access: signedIn(markets.unscoped, fitRoles),
+    handler: ({ req, db, runs: service }): Promise<Run> => runRecord(db, String(req.params.runId), service.live),
+  }),
+  defineRoute({
+    method: "get",
+    path: "/api/runs/:runId/results",
+    access: signedIn(markets.filtered, fitRoles),
+    handler: async ({ req, db, scope, runs: service }): Promise<RunResults> =>
+      runResultsFor(db, await runRecord(db, String(req.params.runId), service.live), scope),
+  }),
+  defineRoute({
+    method: "get",
+    path: "/api/runs/:runId/report",
+    access: signedIn(markets.unscoped, fitRoles),
+    handler: async ({ req, db, runs: service }): Promise<RunReport> => runReportOf(db, await runRecord(db, String(req.params.runId), service.live)),
+  }),
+  defineRoute({
+    method: "get",
+    path: "/api/runs/:runId/events",
+    access: signedIn(markets.unscoped, fitRoles),
+    handler: async ({ req, res, db, runs: service }) => {
+      const runId = String(req.params.runId);
+      const first = await runRecord(db, runId, service.live);
+      res.status(200);
+      res.setHeader("Content-Type", "text/event-stream; charset=utf-8");
+      res.setHeader("Cache-Control", "no-cache, no-transform");
+      res.setHeader("Connection", "keep-alive");
+      res.setHeader("X-Accel-Buffering", "no");
+      res.flushHeaders();
+      const send = (event: RunEvent) => res.write(`event: ${event.type}\ndata: ${JSON.stringify(event)}\n\n`);
+      const ended = (run: Run) => run.status !== "queued" && run.status !== "running";
+
+      send({ type: "run", run: first });
+      if (ended(first)) {
+        send({ type: "end", run: first });
+        res.end();
+        return;
+      }
+      await new Promise<void>((resolve) => {
+        const heartbeat = setInterval(() => res.write(": still here\n\n"), HEARTBEAT_MS);
+        const stop = () => {
+          clearInterval(heartbeat);
+          off();
+          resolve();
+        };
+        const off = service.subscribe(runId, (event) => {
+          if (event.type === "progress") send({ type: "progress", progress: event.progress });
+          else if (event.finished) {
+            send({ type: "end", run: event.run });
+            res.end();
+            stop();
+          } else send({ type: "run", run: event.run });
+        });
+        req.on("close", stop);
+        // The run may have ended between the first read and the subscription.
+        void runRecord(db, runId, service.live).then((now) => {
+          if (ended(now) && !res.writableEnded) {
+            send({ type: "end", run: now });
+            res.end();
+            stop();
+          }
+        });
+      });
+    },
+  }),
+  defineRoute({
+    method: "post",
+    path: "/api/runs/:runId/cancel",
+    access: signedIn(markets.unscoped, fitRoles),
+    handler: ({ req, user, runs: service }): Promise<Run> => service.cancel(String(req.params.runId), user.id),
+  }),
+  defineRoute({
+    method: "post",
+    path: "/api/runs/:runId/restart",
+    access: signedIn(markets.unscoped, fitRoles),
+    handler: async ({ req, res, db, user, runs: service }): Promise<Run> => {
+      const runId = await service.restart(String(req.params.runId), user.id);
+      res.status(201);
+      return runRecord(db, runId, service.live);
+    },
+  }),
+  defineRoute({
+    method: "post",
+    path: "/api/runs/:runId/publish",
+    access: signedIn(markets.unscoped, fitRoles),
+    handler: async ({ req, db, user, runs: service }): Promise<Run> => {
+      const runId = String(req.params.runId);
+      const input = publishRunInput.parse(req.body ?? {});
+      const run = await runRecord(db, runId);
+      if (run.status !== "succeeded") throw new Conflict(`Only a finished run can be published; this one is ${run.status}`);
+      if (run.current) throw new Conflict("This run is already the current one");
+      const reason = input.reason && input.reason.length > 0 ? input.reason : null;
+      if (run.trust.trustworthy !== true && (reason === null || reason.length < PUBLISH_REASON_MIN_LENGTH)) {
+        throw new Invalid(
+          `This run did not pass the convergence checks; to publish it anyway, write why (at least ${PUBLISH_REASON_MIN_LENGTH} characters). The reason is shown wherever its numbers appear.`,
+          [{ path: "reason", message: `Write at least ${PUBLISH_REASON_MIN_LENGTH} characters on why this run can be used despite: ${run.trust.reasons.join(" ")}` }],
+        );
+      }
+      await db.transaction(async (tx) => {
+        await tx.update(runs).set({ publishedAt: new Date(), publishedBy: user.id, publishReason: reason }).where(eq(runs.id, runId));
+        await tx.insert(auditLog).values({
+          userId: user.id,
+          action: "run_published",
+          target: `run:${runId}`,
+          details: { trustworthy: run.trust.trustworthy, reason, datasetVersionId: run.datasetVersionId },
+        });
+      });
+      return runRecord(db, runId, service.live);
+    },
+  }),
+];

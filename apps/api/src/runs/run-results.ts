@@ -1,0 +1,139 @@
+// A finished run's stored numbers: the estimates (filtered to the viewer's markets in
+// one place), the report, and the draws kept for planning.
+import { and, asc, eq, inArray } from "drizzle-orm";
+import {
+  modelCaution,
+  type CellChannelResultView,
+  type FitDiagnosticsView,
+  type HoldoutAccuracy,
+  type ModelSettings,
+  type ParameterDiagnostic,
+  type ParameterTrace,
+  type PredictiveCheckCell,
+  type Run,
+  type RunReport,
+  type RunResults,
+} from "@tributary/contracts";
+import type { DrawSet, FitResult } from "@tributary/stats";
+import type { MarketScope } from "../access/route-table";
+import type { Queryable } from "../db/client";
+import { cells, runDraws, runResults, runs, workspaceSettings } from "../db/schema";
+import { Conflict, NotFound } from "../http/errors";
+import { runDrawSet, type NamedDrawRows } from "../jobs/predictive-check";
+import { fitOptionsOf, loadFitInput } from "./fit-input";
+import { modelSettingsRecord } from "./model-settings-queries";
+import { runForScope } from "./run-queries";
+import { resultKinds } from "./run-service";
+
+async function storedResult<T>(db: Queryable, runId: string, kind: string): Promise<T> {
+  const [row] = await db.select({ summaries: runResults.summaries }).from(runResults).where(and(eq(runResults.runId, runId), eq(runResults.kind, kind)));
+  if (!row) throw new Conflict("This run has no stored results");
+  return row.summaries as T;
+}
+
+function requireSucceeded(run: Run): void {
+  if (run.status !== "succeeded") throw new Conflict(`The run has no results: it is ${run.status}`);
+}
+
+/** The fit's result as stored, with the workspace cell id of each of its cell indices. */
+export type StoredFitResult = FitResult & { readonly cellIds: readonly string[] };
+
+/** Workspace ids (cell, brand, market) of the fit's cells, by cell index. */
+async function cellRefs(db: Queryable, cellIds: readonly string[]) {
+  const rows = cellIds.length > 0 ? await db.select({ id: cells.id, brandId: cells.brandId, marketId: cells.marketId }).from(cells).where(inArray(cells.id, [...cellIds])) : [];
+  const byId = new Map(rows.map((row) => [row.id, row] as const));
+  return cellIds.map((id) => byId.get(id));
+}
+
+/**
+ * The run's estimates as `viewer` may see them: cells outside the scope's markets are
+ * left out here, so no route can send them by mistake.
+ */
+export async function runResultsFor(db: Queryable, run: Run, scope: MarketScope): Promise<RunResults> {
+  requireSucceeded(run);
+  const result = await storedResult<StoredFitResult>(db, run.id, resultKinds.fit);
+  const refs = await cellRefs(db, result.cellIds);
+  const allowed = new Set(scope.marketIds);
+  const cells: CellChannelResultView[] = [];
+  for (const cell of result.cells) {
+    const ref = refs[cell.cell];
+    if (!ref || !allowed.has(ref.marketId)) continue;
+    cells.push({
+      cellId: ref.id,
+      brandId: ref.brandId,
+      marketId: ref.marketId,
+      brand: cell.brand,
+      market: cell.market,
+      channel: cell.channel,
+      hasSpend: cell.hasSpend,
+      cac0: cell.cac0,
+      cac0Unpooled: cell.cac0Unpooled,
+      shrinkage: cell.shrinkage,
+      outlier: cell.outlier,
+      outlierReason: cell.outlierReason,
+    });
+  }
+  const [settings] = await db.select({ currency: workspaceSettings.currency }).from(workspaceSettings).limit(1);
+  return {
+    run: runForScope(run, scope),
+    currency: settings?.currency ?? "",
+    channels: result.channels.map((c) => ({ ...c })),
+    cells,
+    poolingFactors: result.poolingFactors.map((p) => ({ ...p })),
+    caution: modelCaution,
+  };
+}
+
+interface StoredReport {
+  readonly parameters: ParameterDiagnostic[];
+  readonly traces: ParameterTrace[];
+  readonly predictiveCheck: PredictiveCheckCell[];
+  readonly holdout: HoldoutAccuracy | null;
+}
+
+/** Diagnostics, trace and rank data, predictive check and holdout accuracy (every market: analysts and admins only). */
+export async function runReportOf(db: Queryable, run: Run): Promise<RunReport> {
+  requireSucceeded(run);
+  const [result, report] = await Promise.all([
+    storedResult<FitResult>(db, run.id, resultKinds.fit),
+    storedResult<StoredReport>(db, run.id, resultKinds.report),
+  ]);
+  return {
+    run,
+    // Stored as JSON: numbers that are not defined (NaN) come back as null, as the view allows.
+    diagnostics: result.diagnostics as unknown as FitDiagnosticsView,
+    parameters: report.parameters,
+    traces: report.traces,
+    predictiveCheck: report.predictiveCheck,
+    holdout: report.holdout,
+    timing: result.timing,
+  };
+}
+
+/** The thinned draws of a run, one entry per chain (row-major draws × names). */
+export async function loadRunDraws(db: Queryable, runId: string, kind = "pooled"): Promise<NamedDrawRows[]> {
+  const rows = await db
+    .select({ names: runDraws.parameterNames, drawCount: runDraws.drawCount, draws: runDraws.draws })
+    .from(runDraws)
+    .where(and(eq(runDraws.runId, runId), eq(runDraws.kind, kind)))
+    .orderBy(asc(runDraws.chain));
+  return rows.map((row) => {
+    // Copied into an aligned buffer: the bytes may sit at any offset of the driver's buffer.
+    const bytes = new Uint8Array(row.draws);
+    const draws = new Float64Array(bytes.buffer, bytes.byteOffset, bytes.byteLength / 8);
+    if (draws.length !== row.drawCount * row.names.length) throw new Error(`run ${runId}: stored draws do not match their names`);
+    return { names: row.names, draws: Float64Array.from(draws) };
+  });
+}
+
+/** The run's draw set for planning (decision quantities per draw), rebuilt from its data, settings and kept draws. */
+export async function loadRunDrawSet(db: Queryable, runId: string): Promise<DrawSet> {
+  const [run] = await db.select().from(runs).where(eq(runs.id, runId));
+  if (!run) throw new NotFound("No such run");
+  if (run.status !== "succeeded") throw new Conflict(`The run has no draws: it is ${run.status}`);
+  const record = await modelSettingsRecord(db, run.modelSettingsId);
+  const input = await loadFitInput(db, run.datasetVersionId);
+  const settings: ModelSettings = record.settings;
+  // Lift tests do not enter the draw set; today's list may differ from the run's, so none is passed.
+  return runDrawSet(input.data, fitOptionsOf(settings, run.seed, []), await loadRunDraws(db, runId));
+}
