@@ -33,12 +33,22 @@ const screenModules: Record<ScreenKey, () => Promise<ScreenRouteModule>> = {
   outbox: () => import("./routes/app/outbox"),
 };
 
-function screenRoute(queryClient: QueryClient, screen: ScreenKey): RouteObject {
+/** Pages below a screen (e.g. one run's report), gated like their screen. */
+const detailModules: Record<keyof typeof paths.detail, () => Promise<ScreenRouteModule>> = {
+  run: () => import("./routes/app/run"),
+};
+
+function screenRoute(
+  queryClient: QueryClient,
+  screen: ScreenKey,
+  path: string = paths.app[screen].path,
+  load: () => Promise<ScreenRouteModule> = screenModules[screen],
+): RouteObject {
   return {
-    path: paths.app[screen].path,
+    path,
     ErrorBoundary: RouteError,
     lazy: async () => {
-      const module = await screenModules[screen]();
+      const module = await load();
       const Screen = module.default;
       return {
         loader: async (args: LoaderFunctionArgs) => {
@@ -75,6 +85,9 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
       children: [
         { index: true, Component: HomeRoute },
         ...(Object.keys(screenModules) as ScreenKey[]).map((screen) => screenRoute(queryClient, screen)),
+        ...(Object.keys(detailModules) as (keyof typeof paths.detail)[]).map((page) =>
+          screenRoute(queryClient, paths.detail[page].screen, paths.detail[page].path, detailModules[page]),
+        ),
         { path: "*", Component: NotFound },
       ],
     },

@@ -31,6 +31,10 @@ export const paths = {
     peopleAccess: { path: "/people-access", getHref: () => "/people-access" },
     outbox: { path: "/outbox", getHref: () => "/outbox" },
   },
+  /** Pages below a screen, open to the same roles as the screen they belong to. */
+  detail: {
+    run: { screen: "runs", path: "/runs/:runId", getHref: (runId: string) => `/runs/${encodeURIComponent(runId)}` },
+  },
 } as const;
 
 export type ScreenKey = keyof typeof paths.app;

@@ -73,14 +73,16 @@ export function createApiClient(config: ApiClientConfig = {}) {
 
   async function request<T>(method: string, url: string, schema: z.ZodType<T> | null, body: unknown, options: RequestOptions): Promise<T> {
     const headers: Record<string, string> = { Accept: "application/json" };
-    if (body !== undefined) headers["Content-Type"] = "application/json";
+    // A FormData body (a file upload) sets its own multipart Content-Type with the boundary.
+    const isForm = typeof FormData !== "undefined" && body instanceof FormData;
+    if (body !== undefined && !isForm) headers["Content-Type"] = "application/json";
     let response: Response;
     try {
       response = await doFetch(url, {
         method,
         headers,
         credentials: "same-origin",
-        body: body === undefined ? undefined : JSON.stringify(body),
+        body: body === undefined ? undefined : isForm ? (body as FormData) : JSON.stringify(body),
         signal: options.signal,
       });
     } catch (cause) {
@@ -110,6 +112,9 @@ export function createApiClient(config: ApiClientConfig = {}) {
     get: <T>(url: string, schema: z.ZodType<T>, options: RequestOptions = {}) => request("GET", url, schema, undefined, options),
     post: <T>(url: string, schema: z.ZodType<T> | null, body?: unknown, options: RequestOptions = {}) =>
       request("POST", url, schema, body, options),
+    /** Multipart POST, e.g. a file upload. */
+    postForm: <T>(url: string, schema: z.ZodType<T> | null, form: FormData, options: RequestOptions = {}) =>
+      request("POST", url, schema, form, options),
     put: <T>(url: string, schema: z.ZodType<T> | null, body?: unknown, options: RequestOptions = {}) =>
       request("PUT", url, schema, body, options),
     patch: <T>(url: string, schema: z.ZodType<T> | null, body?: unknown, options: RequestOptions = {}) =>

@@ -24,3 +24,31 @@ export function formatMoney(amount: number, currency: string): string {
     return `${amount.toLocaleString("en-GB")} ${currency}`;
   }
 }
+
+/** An ISO timestamp as "4 Mar 2024, 14:05" in the browser's time zone. */
+export function formatDateTime(iso: string): string {
+  const date = new Date(iso);
+  if (Number.isNaN(date.getTime())) return iso;
+  const hours = String(date.getHours()).padStart(2, "0");
+  const minutes = String(date.getMinutes()).padStart(2, "0");
+  return `${date.getDate()} ${months[date.getMonth()]} ${date.getFullYear()}, ${hours}:${minutes}`;
+}
+
+/** A length of time in seconds as "45 s", "12 min 5 s" or "2 h 3 min". */
+export function formatDuration(seconds: number): string {
+  if (!Number.isFinite(seconds) || seconds < 0) return "–";
+  const total = Math.round(seconds);
+  if (total < 60) return `${total} s`;
+  const minutes = Math.floor(total / 60);
+  if (minutes < 60) return `${minutes} min ${total % 60} s`;
+  return `${Math.floor(minutes / 60)} h ${minutes % 60} min`;
+}
+
+/** A number with at most `digits` significant digits and thin grouping: 1234.5 → "1,235", 0.01234 → "0.0123". */
+export function formatNumber(value: number | null, digits = 3): string {
+  if (value === null) return "–";
+  if (!Number.isFinite(value)) return value > 0 ? "∞" : value < 0 ? "−∞" : "–";
+  const abs = Math.abs(value);
+  if (abs >= 10 ** digits) return Math.round(value).toLocaleString("en-GB");
+  return Number(value.toPrecision(digits)).toLocaleString("en-GB", { maximumFractionDigits: 10 });
+}

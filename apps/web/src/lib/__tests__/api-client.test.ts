@@ -31,6 +31,17 @@ describe("api client", () => {
     expect((init.headers as Record<string, string>)["Content-Type"]).toBe("application/json");
   });
 
+  it("sends a file upload as multipart form data, letting the browser set the boundary", async () => {
+    const fetch = respond(201, { id: "u1", count: 1 });
+    const api = createApiClient({ fetch });
+    const form = new FormData();
+    form.append("file", new Blob(["week,brand\n"], { type: "text/csv" }), "data.csv");
+    await expect(api.postForm("/api/uploads", thing, form)).resolves.toEqual({ id: "u1", count: 1 });
+    const [, init] = fetch.mock.calls[0] as unknown as [string, RequestInit];
+    expect(init.body).toBe(form);
+    expect((init.headers as Record<string, string>)["Content-Type"]).toBeUndefined();
+  });
+
   it("turns the JSON error shape into a typed ApiError with its issues", async () => {
     const body = {
       error: {

@@ -1,0 +1,61 @@
+import type { ParameterDiagnostic } from "@tributary/contracts";
+import { DataTable, type DataTableColumn } from "../../../components/data-table/data-table";
+import { formatNumber } from "../../../lib/format";
+
+const RHAT_LIMIT = 1.01;
+const ESS_LIMIT = 400;
+const round = (value: number | null, digits: number) => (value !== null && Number.isFinite(value) ? Number(value.toPrecision(digits)) : null);
+
+function Flagged({ text, flagged, why }: { text: string; flagged: boolean; why: string }) {
+  if (!flagged) return <>{text}</>;
+  return (
+    <span className="inline-flex items-center gap-1 font-semibold text-caution-700">
+      <svg viewBox="0 0 10 10" className="h-2.5 w-2.5" aria-hidden="true">
+        <path d="M5 0.8 9.4 9H0.6Z" fill="currentColor" />
+      </svg>
+      {text}
+      <span className="sr-only"> ({why})</span>
+    </span>
+  );
+}
+
+const columns: DataTableColumn<ParameterDiagnostic>[] = [
+  { id: "label", header: "Parameter", value: (row) => row.label },
+  { id: "name", header: "Name in the model", value: (row) => row.name, cell: (row) => <code className="font-mono text-caption text-ink-700">{row.name}</code> },
+  { id: "mean", header: "Mean", value: (row) => round(row.mean, 4), align: "end" },
+  { id: "sd", header: "SD", value: (row) => round(row.sd, 3), align: "end" },
+  { id: "q05", header: "5 %", value: (row) => round(row.q05, 4), align: "end" },
+  { id: "q50", header: "Median", value: (row) => round(row.q50, 4), align: "end" },
+  { id: "q95", header: "95 %", value: (row) => round(row.q95, 4), align: "end" },
+  {
+    id: "rhat",
+    header: "R-hat",
+    value: (row) => round(row.rhat, 5),
+    cell: (row) => <Flagged text={formatNumber(row.rhat, 4)} flagged={row.rhat !== null && !(row.rhat <= RHAT_LIMIT)} why={`above ${RHAT_LIMIT}`} />,
+    align: "end",
+  },
+  {
+    id: "essBulk",
+    header: "Bulk ESS",
+    value: (row) => round(row.essBulk, 6),
+    cell: (row) => <Flagged text={formatNumber(row.essBulk, 4)} flagged={row.essBulk !== null && !(row.essBulk >= ESS_LIMIT)} why={`below ${ESS_LIMIT}`} />,
+    align: "end",
+  },
+  { id: "essTail", header: "Tail ESS", value: (row) => round(row.essTail, 6), cell: (row) => formatNumber(row.essTail, 4), align: "end" },
+  { id: "mcse", header: "MCSE of mean", value: (row) => round(row.mcseMean, 3), align: "end" },
+];
+
+/** Every parameter's posterior summary and convergence numbers; worst R-hat first. */
+export function DiagnosticsTable({ parameters }: { parameters: ParameterDiagnostic[] }) {
+  return (
+    <DataTable
+      caption="Diagnostics per parameter"
+      rows={parameters}
+      columns={columns}
+      rowKey={(row) => row.name}
+      csvFileName="run-diagnostics.csv"
+      initialSort={{ id: "rhat", desc: true }}
+      emptyMessage="This run has no parameter summaries."
+    />
+  );
+}
