@@ -1,4 +1,5 @@
 import { fireEvent, screen, waitFor, within } from "@testing-library/react";
+import type { ModelSettingsRecord } from "@tributary/contracts";
 import { describe, expect, it, vi } from "vitest";
 import { testDatasetDetail, testDatasetSeries, testDatasetVersion } from "../../../../testing/dataset-fixtures";
 import { jsonResponse, renderWithProviders, stubFetch, type FetchHandler } from "../../../../testing/test-utils";
@@ -16,7 +17,7 @@ function datasetRoutes(extra: Record<string, FetchHandler> = {}) {
   return routes;
 }
 
-function renderSetup(extra: Record<string, FetchHandler> = {}, onStartFit = vi.fn(async () => undefined)) {
+function renderSetup(extra: Record<string, FetchHandler> = {}, onStartFit = vi.fn(async (_record: ModelSettingsRecord) => undefined)) {
   const api = stubFetch(datasetRoutes(extra));
   renderWithProviders(<ModelSetup datasets={[testDatasetVersion]} currency="EUR" onStartFit={onStartFit} priorCheckRunner={inlinePriorCheckRunner()} />);
   return { ...api, onStartFit };
