@@ -280,6 +280,10 @@ export class PortfolioDensity implements DensityModel {
     const dAdstock = this.adstockDerivative;
     const adstock = this.adstock;
     const L = k.maxLag;
+    const seasonal = k.seasonal;
+    const trend = k.trend;
+    const controlDesign = k.controlDesign;
+    const outcome = k.outcome;
     for (let g = 0; g < G; g++) {
       const T = k.weeks[g]!;
       const train = k.trainWeeks[g]!;
@@ -321,7 +325,7 @@ export class PortfolioDensity implements DensityModel {
         mediaShift += b * this.mediaMean[gc]!;
       }
       const intercept = beta0 - mediaShift;
-      for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + intercept + beta1 * k.trend[start + t]!;
+      for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + intercept + beta1 * trend[start + t]!;
       const sBase = k.seasonalStart[g]!;
       for (let j = 0; j < 2 * J; j++) {
         const u = q[block + 2 + j]!;
@@ -329,7 +333,7 @@ export class PortfolioDensity implements DensityModel {
         grad[block + 2 + j] = -u;
         const coef = 0.5 * scale * u;
         const col = sBase + j * T;
-        for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + coef * k.seasonal[col + t]!;
+        addScaled(mean, start, seasonal, col, coef, train);
       }
       const logSigmaIndex = block + 2 + 2 * J;
       const vSigma = q[logSigmaIndex]!;
@@ -345,7 +349,7 @@ export class PortfolioDensity implements DensityModel {
         grad[logSigmaIndex + 1 + j] = -u;
         const coef = scale * u;
         const col = cBase + j * T;
-        for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + coef * k.controlDesign[col + t]!;
+        addScaled(mean, start, controlDesign, col, coef, train);
       }
 
       // likelihood over the training weeks
@@ -356,7 +360,7 @@ export class PortfolioDensity implements DensityModel {
         let sumSq = 0;
         const invVar = invSigma * invSigma;
         for (let t = 0; t < train; t++) {
-          const e = k.outcome[start + t]! - mean[start + t]!;
+          const e = outcome[start + t]! - mean[start + t]!;
           sumSq += e * e;
           const r = e * invVar;
           rho[start + t] = r;
@@ -367,7 +371,7 @@ export class PortfolioDensity implements DensityModel {
       } else {
         let sumLog = 0;
         for (let t = 0; t < train; t++) {
-          const e = k.outcome[start + t]! - mean[start + t]!;
+          const e = outcome[start + t]! - mean[start + t]!;
           const z = e * invSigma;
           const z2 = z * z;
           const denom = nu + z2;
@@ -386,21 +390,16 @@ export class PortfolioDensity implements DensityModel {
       const rhoMean = sumRho / train;
 
       // baseline coefficients
-      let gTrend = 0;
-      for (let t = 0; t < train; t++) gTrend += rho[start + t]! * k.trend[start + t]!;
+      const gTrend = dot(rho, start, trend, start, train);
       grad[block] = grad[block]! + scale * sumRho;
       grad[block + 1] = grad[block + 1]! + scale * gTrend;
       for (let j = 0; j < 2 * J; j++) {
         const col = sBase + j * T;
-        let s = 0;
-        for (let t = 0; t < train; t++) s += rho[start + t]! * k.seasonal[col + t]!;
-        grad[block + 2 + j] = grad[block + 2 + j]! + 0.5 * scale * s;
+        grad[block + 2 + j] = grad[block + 2 + j]! + 0.5 * scale * dot(rho, start, seasonal, col, train);
       }
       for (let j = 0; j < K; j++) {
         const col = cBase + j * T;
-        let s = 0;
-        for (let t = 0; t < train; t++) s += rho[start + t]! * k.controlDesign[col + t]!;
-        grad[logSigmaIndex + 1 + j] = grad[logSigmaIndex + 1 + j]! + scale * s;
+        grad[logSigmaIndex + 1 + j] = grad[logSigmaIndex + 1 + j]! + scale * dot(rho, start, controlDesign, col, train);
       }
 
       // media: d/dr[t] = β (ρ[t] − ρ̄) because r̃ = r − mean(r)
@@ -645,6 +644,18 @@ export class PortfolioDensity implements DensityModel {
     const scratch = new Float64Array(this.dimension);
     return this.logDensityGradient(q, scratch);
   }
+}
+
+/** y[yAt + t] += coef · x[xAt + t] for t < n. */
+function addScaled(y: Float64Array, yAt: number, x: Float64Array, xAt: number, coef: number, n: number): void {
+  for (let t = 0; t < n; t++) y[yAt + t] = y[yAt + t]! + coef * x[xAt + t]!;
+}
+
+/** Σ_t a[aAt + t] · b[bAt + t] for t < n. */
+function dot(a: Float64Array, aAt: number, b: Float64Array, bAt: number, n: number): number {
+  let s = 0;
+  for (let t = 0; t < n; t++) s += a[aAt + t]! * b[bAt + t]!;
+  return s;
 }
 
 function standardNormalBlock(q: Float64Array, at: number, count: number, grad: Float64Array | undefined): number {
