@@ -67,14 +67,15 @@ async function loadOrBuild(kind: SnapshotKind): Promise<Blob> {
 }
 
 /**
- * A fresh in-memory database: "migrated" (empty tables) or "demo" (the demo workspace
- * seeded). Each call gives an independent copy.
+ * A fresh database: "migrated" (empty tables) or "demo" (the demo workspace seeded),
+ * in memory, or in `dataDir` (an empty directory) when given. Each call gives an
+ * independent copy.
  */
-export async function snapshotDatabase(kind: SnapshotKind): Promise<Database> {
+export async function snapshotDatabase(kind: SnapshotKind, options: { dataDir?: string } = {}): Promise<Database> {
   let snapshot = inMemory.get(kind);
   if (!snapshot) {
     snapshot = loadOrBuild(kind);
     inMemory.set(kind, snapshot);
   }
-  return createDatabase({ snapshot: await snapshot });
+  return createDatabase({ snapshot: await snapshot, dataDir: options.dataDir });
 }
