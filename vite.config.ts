@@ -24,7 +24,7 @@ export default defineConfig({
       { extends: true, test: { name: "api", root: repoRoot, include: ["apps/api/src/**/*.test.ts"], environment: "node", testTimeout: 60_000, hookTimeout: 60_000 } },
       { extends: true, test: { name: "cli", root: repoRoot, include: ["apps/cli/src/**/*.test.ts"], environment: "node", testTimeout: 300_000 } },
       { extends: true, test: { name: "web", root: repoRoot, include: ["apps/web/src/**/*.test.{ts,tsx}"], environment: "happy-dom" } },
-      { extends: true, test: { name: "e2e", root: repoRoot, include: ["tests/e2e/**/*.test.ts"], environment: "node", testTimeout: 300_000, hookTimeout: 300_000, fileParallelism: false } },
+      { extends: true, test: { name: "e2e", root: repoRoot, include: ["tests/e2e/**/*.test.ts"], globalSetup: ["tests/e2e/support/global-setup.ts"], environment: "node", testTimeout: 300_000, hookTimeout: 300_000, fileParallelism: false } },
     ],
   },
 });

@@ -1,9 +1,8 @@
 // Signing in as each demo role against the real server: what each one sees.
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, describe, expect, inject, it } from "vitest";
 import { demoMarkets } from "../../apps/api/src/demo/demo-design";
 import { headingText, navigationLabels, portfolioGridMarkets, signIn } from "./support/app";
 import { openBrowser, type BrowserSession } from "./support/browser";
-import { buildWebApp, startServer, type RunningServer } from "./support/server";
 import { demoUsers } from "./support/users";
 
 const everyScreen = [
@@ -25,7 +24,8 @@ function marketNames(codes: readonly string[]): string[] {
   return codes.map((code) => demoMarkets.find((market) => market.code === code)?.name ?? code);
 }
 
-let server: RunningServer;
+// The shared server started once by support/global-setup.ts.
+const server = { baseUrl: inject("baseUrl") };
 const sessions: BrowserSession[] = [];
 
 async function browser(): Promise<BrowserSession> {
@@ -34,14 +34,8 @@ async function browser(): Promise<BrowserSession> {
   return session;
 }
 
-beforeAll(async () => {
-  buildWebApp();
-  server = await startServer();
-});
-
 afterAll(async () => {
   for (const session of sessions) await session.close();
-  await server?.stop();
 });
 
 describe("market manager", () => {

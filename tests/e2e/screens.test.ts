@@ -1,21 +1,12 @@
 // Every screen each demo role can open, with a screenshot of each under
 // test-results/screenshots/<role>/ for people to look at.
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import { headingText, signIn } from "./support/app";
 import { openBrowser, saveScreenshot } from "./support/browser";
-import { buildWebApp, startServer, type RunningServer } from "./support/server";
 import { demoUserKeys, demoUsers } from "./support/users";
 
-let server: RunningServer;
-
-beforeAll(async () => {
-  buildWebApp();
-  server = await startServer();
-});
-
-afterAll(async () => {
-  await server?.stop();
-});
+// The shared server started once by support/global-setup.ts.
+const server = { baseUrl: inject("baseUrl") };
 
 function slug(text: string): string {
   return text.toLowerCase().replace(/&/g, "and").replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, "");

@@ -49,6 +49,8 @@ export function formatNumber(value: number | null, digits = 3): string {
   if (value === null) return "–";
   if (!Number.isFinite(value)) return value > 0 ? "∞" : value < 0 ? "−∞" : "–";
   const abs = Math.abs(value);
-  if (abs >= 10 ** digits) return Math.round(value).toLocaleString("en-GB");
-  return Number(value.toPrecision(digits)).toLocaleString("en-GB", { maximumFractionDigits: 10 });
+  const text =
+    abs >= 10 ** digits ? Math.round(value).toLocaleString("en-GB") : Number(value.toPrecision(digits)).toLocaleString("en-GB", { maximumFractionDigits: 10 });
+  // A true minus sign, not a hyphen.
+  return text.replace("-", "−");
 }

@@ -67,27 +67,30 @@ export function PlotFigure({ title, caption, render, table, children }: PlotFigu
       ) : null}
       <figcaption className="mt-2 text-small text-ink-700">{caption}</figcaption>
       {children}
-      <table className="sr-only">
-        <caption>{table.caption}</caption>
-        <thead>
-          <tr>
-            {table.columns.map((column) => (
-              <th key={column} scope="col">
-                {column}
-              </th>
-            ))}
-          </tr>
-        </thead>
-        <tbody>
-          {table.rows.map((row, i) => (
-            <tr key={i}>
-              {row.map((value, j) => (
-                <td key={j}>{value ?? "no value"}</td>
+      {/* A table ignores overflow and height, so the hiding is done by a wrapper. */}
+      <div className="sr-only">
+        <table>
+          <caption>{table.caption}</caption>
+          <thead>
+            <tr>
+              {table.columns.map((column) => (
+                <th key={column} scope="col">
+                  {column}
+                </th>
               ))}
             </tr>
-          ))}
-        </tbody>
-      </table>
+          </thead>
+          <tbody>
+            {table.rows.map((row, i) => (
+              <tr key={i}>
+                {row.map((value, j) => (
+                  <td key={j}>{value ?? "no value"}</td>
+                ))}
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </div>
     </figure>
   );
 }

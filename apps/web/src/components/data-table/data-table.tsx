@@ -2,6 +2,7 @@ import {
   flexRender,
   getCoreRowModel,
   getFilteredRowModel,
+  getPaginationRowModel,
   getSortedRowModel,
   useReactTable,
   type ColumnDef,
@@ -22,6 +23,8 @@ export type DataTableColumn<Row> = {
   cell?: (row: Row) => ReactNode;
   align?: "start" | "end";
   sortable?: boolean;
+  /** In the CSV export only, not on screen (e.g. a code already shown inside another column). */
+  csvOnly?: boolean;
 };
 
 type DataTableProps<Row> = {
@@ -35,6 +38,8 @@ type DataTableProps<Row> = {
   emptyMessage?: string;
   initialSort?: { id: string; desc?: boolean };
   filterable?: boolean;
+  /** Rows per page; without it every row is shown. */
+  pageSize?: number;
 };
 
 const matchesText: FilterFn<unknown> = (row, _columnId, query: string) => {
@@ -61,10 +66,17 @@ export function DataTable<Row>({
   emptyMessage = "No rows to show.",
   initialSort,
   filterable = true,
+  pageSize,
 }: DataTableProps<Row>) {
   const filterId = useId();
   const [sorting, setSorting] = useState<SortingState>(initialSort ? [{ id: initialSort.id, desc: initialSort.desc ?? false }] : []);
   const [filter, setFilter] = useState("");
+  const [pagination, setPagination] = useState({ pageIndex: 0, pageSize: pageSize ?? Number.MAX_SAFE_INTEGER });
+  // A new filter starts again at the first page.
+  const changeFilter = (value: string) => {
+    setFilter(value);
+    setPagination((current) => ({ ...current, pageIndex: 0 }));
+  };
 
   const columnDefs = useMemo<ColumnDef<Row, CsvValue | undefined>[]>(
     () =>
@@ -89,17 +101,23 @@ export function DataTable<Row>({
   const table = useReactTable<Row>({
     data: rows,
     columns: columnDefs,
-    state: { sorting, globalFilter: filter },
+    state: { sorting, globalFilter: filter, pagination, columnVisibility: Object.fromEntries(columns.filter((c) => c.csvOnly).map((c) => [c.id, false])) },
     onSortingChange: setSorting,
-    onGlobalFilterChange: setFilter,
+    onGlobalFilterChange: (value: string) => changeFilter(value),
+    onPaginationChange: setPagination,
     globalFilterFn: matchesText as FilterFn<Row>,
     getRowId: (row) => rowKey(row),
     getCoreRowModel: getCoreRowModel(),
     getSortedRowModel: getSortedRowModel(),
     getFilteredRowModel: getFilteredRowModel(),
+    getPaginationRowModel: getPaginationRowModel(),
   });
 
-  const visibleRows = table.getRowModel().rows;
+  // Every row that passes the filter, in sort order; the page shows a slice of them.
+  const visibleRows = table.getPrePaginationRowModel().rows;
+  const pageRows = table.getRowModel().rows;
+  const pageCount = table.getPageCount();
+  const shownColumns = columns.filter((column) => !column.csvOnly);
 
   function exportCsv() {
     const csv = toCsv(
@@ -123,7 +141,7 @@ export function DataTable<Row>({
                 id={filterId}
                 type="search"
                 value={filter}
-                onChange={(event) => setFilter(event.target.value)}
+                onChange={(event) => changeFilter(event.target.value)}
                 className="w-48 rounded-md border border-field bg-surface px-2.5 py-1.5 text-small text-ink-900 placeholder:text-ink-500"
                 placeholder="Type to filter"
               />
@@ -172,12 +190,12 @@ export function DataTable<Row>({
           <tbody>
             {visibleRows.length === 0 ? (
               <tr>
-                <td colSpan={columns.length} className="px-4 py-6 text-center text-ink-600">
+                <td colSpan={shownColumns.length} className="px-4 py-6 text-center text-ink-600">
                   {filter ? "No rows match the filter." : emptyMessage}
                 </td>
               </tr>
             ) : (
-              visibleRows.map((row) => (
+              pageRows.map((row) => (
                 <tr key={row.id} className="border-b border-line last:border-b-0 hover:bg-stream-50/60">
                   {row.getVisibleCells().map((cell) => {
                     const alignEnd = columns.find((column) => column.id === cell.column.id)?.align === "end";
@@ -193,11 +211,24 @@ export function DataTable<Row>({
           </tbody>
         </table>
       </div>
-      <p className="border-t border-line px-4 py-2 text-caption text-ink-600" aria-live="polite">
-        {visibleRows.length === rows.length
-          ? `${rows.length} ${rows.length === 1 ? "row" : "rows"}`
-          : `Showing ${visibleRows.length} of ${rows.length} rows`}
-      </p>
+      <div className="flex flex-wrap items-center justify-between gap-3 border-t border-line px-4 py-2">
+        <p className="text-caption text-ink-600" aria-live="polite">
+          {visibleRows.length === rows.length
+            ? `${rows.length} ${rows.length === 1 ? "row" : "rows"}`
+            : `Showing ${visibleRows.length} of ${rows.length} rows`}
+          {pageCount > 1 ? ` · page ${pagination.pageIndex + 1} of ${pageCount}` : ""}
+        </p>
+        {pageCount > 1 ? (
+          <nav aria-label={`Pages of ${caption}`} className="flex items-center gap-2">
+            <Button variant="secondary" className="px-2.5! py-1!" onClick={() => table.previousPage()} disabled={!table.getCanPreviousPage()}>
+              Previous page
+            </Button>
+            <Button variant="secondary" className="px-2.5! py-1!" onClick={() => table.nextPage()} disabled={!table.getCanNextPage()}>
+              Next page
+            </Button>
+          </nav>
+        ) : null}
+      </div>
     </section>
   );
 }

@@ -1,7 +1,8 @@
 import type { ReactNode } from "react";
 
+/** Looks of a text field, select or text area; add a width (w-full, w-32, …) where it is used. */
 export const inputClass =
-  "block w-full rounded-md border border-field bg-surface px-2.5 py-1.5 text-small text-ink-900 placeholder:text-ink-500 aria-[invalid=true]:border-alert-700 disabled:bg-ink-50 disabled:text-ink-500";
+  "block rounded-md border border-field bg-surface px-2.5 py-1.5 text-small text-ink-900 placeholder:text-ink-500 aria-[invalid=true]:border-alert-700 disabled:bg-ink-50 disabled:text-ink-500";
 
 type FieldProps = {
   /** The id of the control inside; label, help and error are tied to it. */

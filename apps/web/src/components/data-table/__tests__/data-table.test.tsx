@@ -93,6 +93,42 @@ describe("data table", () => {
   });
 });
 
+describe("data table pages and export-only columns", () => {
+  it("shows a page at a time, keeps sorting across pages, and exports every row", async () => {
+    const download = captureDownload();
+    try {
+      render(<DataTable caption="Cells" rows={rows} columns={columns} rowKey={(row) => row.id} csvFileName="cells.csv" pageSize={3} initialSort={{ id: "brand" }} />);
+      expect(columnValues(0)).toEqual(["Alderby", "Fennick", "Hollowby"]);
+      expect(screen.getByText("4 rows · page 1 of 2")).toBeTruthy();
+      const pages = screen.getByRole("navigation", { name: "Pages of Cells" });
+      expect((within(pages).getByRole("button", { name: "Previous page" }) as HTMLButtonElement).disabled).toBe(true);
+      fireEvent.click(within(pages).getByRole("button", { name: "Next page" }));
+      expect(columnValues(0)).toEqual(['Marrow, "Old"']);
+      fireEvent.click(screen.getByRole("button", { name: "Export CSV" }));
+      expect((await download.text()).split("\r\n")).toHaveLength(5);
+      // Filtering starts again at the first page.
+      fireEvent.change(screen.getByLabelText("Filter rows"), { target: { value: "e" } });
+      expect(columnValues(0)).toEqual(["Alderby", "Fennick", 'Marrow, "Old"']);
+    } finally {
+      download.restore();
+    }
+  });
+
+  it("leaves an export-only column off the screen but puts it in the CSV", async () => {
+    const download = captureDownload();
+    try {
+      const withCode: DataTableColumn<Row>[] = [...columns, { id: "code", header: "Code", value: (row) => `cell-${row.id}`, csvOnly: true }];
+      render(<DataTable caption="Cells" rows={rows.slice(0, 1)} columns={withCode} rowKey={(row) => row.id} csvFileName="cells.csv" />);
+      expect(screen.queryByRole("columnheader", { name: "Code" })).toBeNull();
+      expect(screen.getAllByRole("cell")).toHaveLength(3);
+      fireEvent.click(screen.getByRole("button", { name: "Export CSV" }));
+      expect(await download.text()).toBe("Brand,Market,Weeks,Code\r\nFennick,Ardeval,104,cell-1");
+    } finally {
+      download.restore();
+    }
+  });
+});
+
 describe("toCsv", () => {
   it("quotes separators and quotes, leaves empty values empty, and defuses spreadsheet formulas", () => {
     const csv = toCsv(["name", "value"], [

@@ -125,7 +125,7 @@ export function ColumnMappingStep({ upload, initial, onSubmit, checking }: Colum
                   <td className="px-3 py-2">
                     <select
                       aria-label={`Role of ${field.header}`}
-                      className={inputClass}
+                      className={`${inputClass} w-full`}
                       value={role}
                       onChange={(event) => chooseRole(index, event.target.value as ColumnRole)}
                     >
@@ -143,7 +143,7 @@ export function ColumnMappingStep({ upload, initial, onSubmit, checking }: Colum
                           aria-label={`Channel name for ${field.header}`}
                           aria-invalid={channelError ? true : undefined}
                           aria-describedby={channelError ? `channel-error-${index}` : undefined}
-                          className={inputClass}
+                          className={`${inputClass} w-full`}
                           {...form.register(`columns.${index}.channel`)}
                         />
                         {channelError ? (

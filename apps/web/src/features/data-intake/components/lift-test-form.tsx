@@ -62,14 +62,14 @@ export function LiftTestForm({ cells, channels, currency, onSubmit }: LiftTestFo
       ) : null}
       <div className="grid gap-4 md:grid-cols-3">
         <Field id="lift-brand" label="Brand" error={errors.brand?.message}>
-          <select className={inputClass} {...control("brand")} {...form.register("brand", { onChange: () => form.setValue("market", "") })}>
+          <select className={`${inputClass} w-full`} {...control("brand")} {...form.register("brand", { onChange: () => form.setValue("market", "") })}>
             {brands.map((name) => (
               <option key={name}>{name}</option>
             ))}
           </select>
         </Field>
         <Field id="lift-market" label="Market" error={errors.market?.message}>
-          <select className={inputClass} {...control("market")} {...form.register("market")}>
+          <select className={`${inputClass} w-full`} {...control("market")} {...form.register("market")}>
             <option value="">Choose a market</option>
             {markets.map((name) => (
               <option key={name}>{name}</option>
@@ -77,27 +77,27 @@ export function LiftTestForm({ cells, channels, currency, onSubmit }: LiftTestFo
           </select>
         </Field>
         <Field id="lift-channel" label="Channel" error={errors.channel?.message}>
-          <select className={inputClass} {...control("channel")} {...form.register("channel")}>
+          <select className={`${inputClass} w-full`} {...control("channel")} {...form.register("channel")}>
             {channels.map((name) => (
               <option key={name}>{name}</option>
             ))}
           </select>
         </Field>
         <Field id="lift-firstWeek" label="First week (a Monday)" error={errors.firstWeek?.message}>
-          <input type="date" className={inputClass} {...control("firstWeek")} {...form.register("firstWeek")} />
+          <input type="date" className={`${inputClass} w-full`} {...control("firstWeek")} {...form.register("firstWeek")} />
         </Field>
         <Field id="lift-lastWeek" label="Last week (a Monday)" error={errors.lastWeek?.message}>
-          <input type="date" className={inputClass} {...control("lastWeek")} {...form.register("lastWeek")} />
+          <input type="date" className={`${inputClass} w-full`} {...control("lastWeek")} {...form.register("lastWeek")} />
         </Field>
         <Field id="lift-spend" label={`Spend during the test (${currency})`} error={errors.spend?.message}>
-          <input type="number" inputMode="decimal" min={0} step="any" className={inputClass} {...control("spend")} {...form.register("spend", { valueAsNumber: true })} />
+          <input type="number" inputMode="decimal" min={0} step="any" className={`${inputClass} w-full`} {...control("spend")} {...form.register("spend", { valueAsNumber: true })} />
         </Field>
         <Field id="lift-incrementalOutcome" label="Measured extra outcome" error={errors.incrementalOutcome?.message} help="e.g. extra new customers the test group brought; may be negative">
           <input
             type="number"
             inputMode="decimal"
             step="any"
-            className={inputClass}
+            className={`${inputClass} w-full`}
             {...control("incrementalOutcome")}
             {...form.register("incrementalOutcome", { valueAsNumber: true })}
           />
@@ -108,13 +108,13 @@ export function LiftTestForm({ cells, channels, currency, onSubmit }: LiftTestFo
             inputMode="decimal"
             min={0}
             step="any"
-            className={inputClass}
+            className={`${inputClass} w-full`}
             {...control("standardError")}
             {...form.register("standardError", { valueAsNumber: true })}
           />
         </Field>
         <Field id="lift-note" label="Note (optional)" error={errors.note?.message}>
-          <input className={inputClass} maxLength={500} {...control("note")} {...form.register("note")} />
+          <input className={`${inputClass} w-full`} maxLength={500} {...control("note")} {...form.register("note")} />
         </Field>
       </div>
       <Button type="submit" disabled={isSubmitting || cells.length === 0}>

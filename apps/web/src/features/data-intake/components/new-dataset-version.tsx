@@ -178,7 +178,7 @@ export function NewDatasetVersion({ currency, onSaved }: NewDatasetVersionProps)
                 maxLength={500}
                 rows={2}
                 onChange={(event) => setNote(event.target.value)}
-                className={`${inputClass} mt-1 max-w-2xl`}
+                className={`${inputClass} mt-1 w-full max-w-2xl`}
                 placeholder="What is new in this data, e.g. “adds September; corrects TV spend in Solvera”"
               />
             </div>

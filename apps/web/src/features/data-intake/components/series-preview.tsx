@@ -2,6 +2,7 @@ import * as Plot from "@observablehq/plot";
 import type { CellSeriesPreview } from "@tributary/contracts";
 import { useCallback, useId, useMemo, useState } from "react";
 import { seriesColours, tokenColour } from "../../../components/chart/chart-colours";
+import { compactNumber } from "../../../components/chart/axis-format";
 import { PlotFigure } from "../../../components/chart/plot-figure";
 import { inputClass } from "../../../components/ui/field";
 import { formatWeek } from "../../../lib/format";
@@ -52,7 +53,7 @@ export function SeriesPreview({ series, channels, currency, outcomeName }: Serie
           height: 240,
           marginLeft: 64,
           x: { type: "utc", domain: xDomain, label: null },
-          y: { label: `Spend per week (${currency})`, grid: true, tickFormat: "~s" },
+          y: { label: `Spend per week (${currency})`, grid: true, tickFormat: compactNumber },
           color: { legend: true, domain: channels, range: palette },
           marks: [
             Plot.areaY(spendRows, { x: "date", y: (d: { spend: number | null }) => d.spend ?? 0, fill: "channel", order: channels, curve: "step-after" }),
@@ -64,7 +65,7 @@ export function SeriesPreview({ series, channels, currency, outcomeName }: Serie
           height: 180,
           marginLeft: 64,
           x: { type: "utc", domain: xDomain, label: "Week" },
-          y: { label: `${outcomeLabel} per week`, grid: true, tickFormat: "~s", zero: true },
+          y: { label: `${outcomeLabel} per week`, grid: true, tickFormat: compactNumber, zero: true },
           marks: [
             Plot.lineY(outcomeRows, { x: "date", y: "outcome", stroke: tokenColour("ink-900"), strokeWidth: 1.6 }),
             Plot.ruleY([0], { stroke: tokenColour("ink-500") }),
@@ -86,7 +87,7 @@ export function SeriesPreview({ series, channels, currency, outcomeName }: Serie
           <label htmlFor={selectId} className="block text-small font-medium text-ink-800">
             Cell to preview
           </label>
-          <select id={selectId} className={`${inputClass} mt-1 w-72`} value={selected} onChange={(event) => setSelected(Number(event.target.value))}>
+          <select id={selectId} className={`${inputClass} mt-1 w-80 max-w-full`} value={selected} onChange={(event) => setSelected(Number(event.target.value))}>
             {series.map((item, i) => (
               <option key={`${item.brand}|${item.market}`} value={i}>
                 {cellLabel(item)} ({item.weeks.length} weeks)

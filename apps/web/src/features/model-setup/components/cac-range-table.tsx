@@ -44,7 +44,7 @@ export function CacRangeTable({ channels, register, errors, currency, prior, sta
             const implied = prior?.channels.find((entry) => entry.channel === channel);
             return (
               <tr key={channel} className="border-b border-line last:border-b-0 align-top">
-                <th scope="row" className="px-3 py-2 text-left font-medium text-ink-900">
+                <th scope="row" className="px-3 pb-2 pt-3.5 text-left font-medium text-ink-900">
                   {channel}
                   <input type="hidden" {...register(`cacRanges.${index}.channel`)} />
                 </th>
@@ -84,7 +84,7 @@ export function CacRangeTable({ channels, register, errors, currency, prior, sta
                     </p>
                   ) : null}
                 </td>
-                <td className={`px-3 py-2 tabular-nums text-ink-800 ${stale ? "opacity-60" : ""}`} data-channel-prior={channel}>
+                <td className={`px-3 pb-2 pt-3.5 tabular-nums text-ink-800 ${stale ? "opacity-60" : ""}`} data-channel-prior={channel}>
                   {implied ? (
                     <>
                       {formatMoney(implied.cac0.q05, currency)} – {formatMoney(implied.cac0.q95, currency)}

@@ -206,7 +206,7 @@ function ModelSetupForm({
     const error = errors[name]?.message;
     return (
       <Field id={id} label={label} help={settingsHelp[name]} error={error}>
-        <select id={id} className={inputClass} aria-describedby={describedBy(id, { help: true, error })} {...form.register(name)}>
+        <select id={id} className={`${inputClass} w-full`} aria-describedby={describedBy(id, { help: true, error })} {...form.register(name)}>
           {options.map((option) => (
             <option key={option} value={option}>
               {labels[option]}
@@ -223,7 +223,7 @@ function ModelSetupForm({
       <form onSubmit={submit} noValidate aria-label="Model settings" className="space-y-6">
         <Section title="Data">
           <Field id="setting-datasetVersionId" label="Dataset version" help={settingsHelp.datasetVersionId} error={errors.datasetVersionId?.message} className="max-w-xl">
-            <select id="setting-datasetVersionId" className={inputClass} aria-describedby={describedBy("setting-datasetVersionId", { help: true })} {...form.register("datasetVersionId")}>
+            <select id="setting-datasetVersionId" className={`${inputClass} w-full`} aria-describedby={describedBy("setting-datasetVersionId", { help: true })} {...form.register("datasetVersionId")}>
               {datasets.map((version) => (
                 <option key={version.id} value={version.id}>
                   Version {version.number}

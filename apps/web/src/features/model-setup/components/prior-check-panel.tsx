@@ -2,6 +2,7 @@ import * as Plot from "@observablehq/plot";
 import type { CellPriorCheck, PriorCheckResult } from "@tributary/stats";
 import { useCallback, useId, useMemo, useState } from "react";
 import { tokenColour } from "../../../components/chart/chart-colours";
+import { compactNumber } from "../../../components/chart/axis-format";
 import { PlotFigure } from "../../../components/chart/plot-figure";
 import { DataTable, type DataTableColumn } from "../../../components/data-table/data-table";
 import { inputClass } from "../../../components/ui/field";
@@ -11,6 +12,7 @@ import type { PriorCheckState } from "../worker/use-prior-check";
 
 const weekDate = (iso: string) => new Date(`${iso}T00:00:00Z`);
 const addWeeks = (iso: string, weeks: number) => new Date(weekDate(iso).getTime() + weeks * 7 * 86_400_000);
+const shareNumber = (share: number) => (Number.isFinite(share) ? formatNumber(share * 100, 2) : "–");
 const percent = (share: number) => (Number.isFinite(share) ? `${formatNumber(share * 100, 2)} %` : "–");
 
 function ChannelChart({ result, currency }: { result: PriorCheckResult; currency: string }) {
@@ -22,7 +24,7 @@ function ChannelChart({ result, currency }: { result: PriorCheckResult; currency
         height: 48 + rows.length * 40,
         marginLeft: 110,
         marginRight: 24,
-        x: { type: "log", label: `Cost per new customer at low spend (${currency}, log scale)`, grid: true, tickFormat: "~s" },
+        x: { type: "log", label: `Cost per new customer at low spend (${currency}, log scale)`, grid: true, tickFormat: compactNumber },
         y: { label: null, domain: rows.map((row) => row.channel) },
         marks: [
           Plot.ruleY(rows, { y: "channel", x1: "q05", x2: "q95", stroke: tokenColour("stream-500"), strokeWidth: 2 }),
@@ -77,7 +79,7 @@ function CellBandsChart({ cell, outcomeLabel }: { cell: CellPriorCheck; outcomeL
         height: 300,
         marginLeft: 64,
         x: { type: "utc", label: "Week" },
-        y: { label: `${outcomeLabel} per week`, grid: true, tickFormat: "~s" },
+        y: { label: `${outcomeLabel} per week`, grid: true, tickFormat: compactNumber },
         marks: [
           Plot.areaY(rows, { x: "date", y1: "q05", y2: "q95", fill: tokenColour("stream-200"), fillOpacity: 0.7, curve: "step-after" }),
           Plot.areaY(rows, { x: "date", y1: "q25", y2: "q75", fill: tokenColour("stream-500"), fillOpacity: 0.55, curve: "step-after" }),
@@ -139,7 +141,7 @@ function cellColumns(currency: string): DataTableColumn<CellRow>[] {
       id: "mediaShare",
       header: "Share from media (median, 90 %)",
       value: (row) => round(row.mediaShare.q50),
-      cell: (row) => `${percent(row.mediaShare.q50)} (${percent(row.mediaShare.q05)} – ${percent(row.mediaShare.q95)})`,
+      cell: (row) => `${percent(row.mediaShare.q50)} (${shareNumber(row.mediaShare.q05)}–${percent(row.mediaShare.q95)})`,
       align: "end",
     },
     {
@@ -205,7 +207,7 @@ export function PriorCheckPanel({ state, currency, outcomeLabel, pausedBecause }
                 <label htmlFor={selectId} className="block text-small font-medium text-ink-800">
                   Cell
                 </label>
-                <select id={selectId} className={`${inputClass} mt-1 w-72`} value={Math.min(selected, result.cells.length - 1)} onChange={(event) => setSelected(Number(event.target.value))}>
+                <select id={selectId} className={`${inputClass} mt-1 w-80 max-w-full`} value={Math.min(selected, result.cells.length - 1)} onChange={(event) => setSelected(Number(event.target.value))}>
                   {result.cells.map((c, i) => (
                     <option key={`${c.brand}|${c.market}`} value={i}>
                       {c.brand} in {c.market}

@@ -13,5 +13,5 @@ export const settingsHelp = {
   warmup: "Iterations each chain spends tuning its step size and scales; they are discarded.",
   draws: "Iterations per chain kept after warm-up. Fewer draws run faster but may leave too few effective draws for a trustworthy run.",
   seed: "Fixes the random numbers, so the same settings give the same draws. Leave empty to get a new one.",
-  unpooledComparison: "Also fit each cell on its own, so the Pooling review can show how far pooling moved each estimate.",
+  unpooledComparison: "Lets the Pooling review show how far pooling moved each cell's estimate. It adds to the time a fit takes.",
 } as const;

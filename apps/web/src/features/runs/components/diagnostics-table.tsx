@@ -20,13 +20,23 @@ function Flagged({ text, flagged, why }: { text: string; flagged: boolean; why: 
 }
 
 const columns: DataTableColumn<ParameterDiagnostic>[] = [
-  { id: "label", header: "Parameter", value: (row) => row.label },
-  { id: "name", header: "Name in the model", value: (row) => row.name, cell: (row) => <code className="font-mono text-caption text-ink-700">{row.name}</code> },
-  { id: "mean", header: "Mean", value: (row) => round(row.mean, 4), align: "end" },
-  { id: "sd", header: "SD", value: (row) => round(row.sd, 3), align: "end" },
-  { id: "q05", header: "5 %", value: (row) => round(row.q05, 4), align: "end" },
-  { id: "q50", header: "Median", value: (row) => round(row.q50, 4), align: "end" },
-  { id: "q95", header: "95 %", value: (row) => round(row.q95, 4), align: "end" },
+  {
+    id: "label",
+    header: "Parameter",
+    value: (row) => row.label,
+    cell: (row) => (
+      <span className="block min-w-56">
+        {row.label}
+        <code className="block font-mono text-caption text-ink-600">{row.name}</code>
+      </span>
+    ),
+  },
+  { id: "name", header: "Name in the model", value: (row) => row.name, csvOnly: true },
+  { id: "mean", header: "Mean", value: (row) => round(row.mean, 4), cell: (row) => formatNumber(row.mean, 4), align: "end" },
+  { id: "sd", header: "SD", value: (row) => round(row.sd, 3), cell: (row) => formatNumber(row.sd, 3), align: "end" },
+  { id: "q05", header: "5 %", value: (row) => round(row.q05, 4), cell: (row) => formatNumber(row.q05, 4), align: "end" },
+  { id: "q50", header: "Median", value: (row) => round(row.q50, 4), cell: (row) => formatNumber(row.q50, 4), align: "end" },
+  { id: "q95", header: "95 %", value: (row) => round(row.q95, 4), cell: (row) => formatNumber(row.q95, 4), align: "end" },
   {
     id: "rhat",
     header: "R-hat",
@@ -37,12 +47,12 @@ const columns: DataTableColumn<ParameterDiagnostic>[] = [
   {
     id: "essBulk",
     header: "Bulk ESS",
-    value: (row) => round(row.essBulk, 6),
-    cell: (row) => <Flagged text={formatNumber(row.essBulk, 4)} flagged={row.essBulk !== null && !(row.essBulk >= ESS_LIMIT)} why={`below ${ESS_LIMIT}`} />,
+    value: (row) => (row.essBulk === null ? null : Math.round(row.essBulk)),
+    cell: (row) => <Flagged text={row.essBulk === null ? "–" : String(Math.round(row.essBulk))} flagged={row.essBulk !== null && !(row.essBulk >= ESS_LIMIT)} why={`below ${ESS_LIMIT}`} />,
     align: "end",
   },
-  { id: "essTail", header: "Tail ESS", value: (row) => round(row.essTail, 6), cell: (row) => formatNumber(row.essTail, 4), align: "end" },
-  { id: "mcse", header: "MCSE of mean", value: (row) => round(row.mcseMean, 3), align: "end" },
+  { id: "essTail", header: "Tail ESS", value: (row) => (row.essTail === null ? null : Math.round(row.essTail)), align: "end" },
+  { id: "mcse", header: "MCSE of mean", value: (row) => round(row.mcseMean, 3), cell: (row) => formatNumber(row.mcseMean, 3), align: "end" },
 ];
 
 /** Every parameter's posterior summary and convergence numbers; worst R-hat first. */
@@ -55,6 +65,7 @@ export function DiagnosticsTable({ parameters }: { parameters: ParameterDiagnost
       rowKey={(row) => row.name}
       csvFileName="run-diagnostics.csv"
       initialSort={{ id: "rhat", desc: true }}
+      pageSize={20}
       emptyMessage="This run has no parameter summaries."
     />
   );

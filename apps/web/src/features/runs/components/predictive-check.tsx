@@ -2,6 +2,7 @@ import * as Plot from "@observablehq/plot";
 import type { PredictiveCheckCell } from "@tributary/contracts";
 import { useCallback, useId, useMemo, useState } from "react";
 import { tokenColour } from "../../../components/chart/chart-colours";
+import { compactNumber } from "../../../components/chart/axis-format";
 import { PlotFigure } from "../../../components/chart/plot-figure";
 import { DataTable, type DataTableColumn } from "../../../components/data-table/data-table";
 import { inputClass } from "../../../components/ui/field";
@@ -32,7 +33,7 @@ function CellChart({ cell, outcomeLabel }: { cell: PredictiveCheckCell; outcomeL
         height: 300,
         marginLeft: 64,
         x: { type: "utc", label: "Week" },
-        y: { label: `${outcomeLabel} per week`, grid: true, tickFormat: "~s" },
+        y: { label: `${outcomeLabel} per week`, grid: true, tickFormat: compactNumber },
         marks: [
           Plot.areaY(rows, { x: "date", y1: "q05", y2: "q95", fill: tokenColour("stream-200"), fillOpacity: 0.75, curve: "step-after" }),
           Plot.areaY(rows, { x: "date", y1: "q25", y2: "q75", fill: tokenColour("stream-500"), fillOpacity: 0.55, curve: "step-after" }),
@@ -83,7 +84,7 @@ export function PredictiveCheck({ cells, outcomeLabel }: { cells: PredictiveChec
         <label htmlFor={selectId} className="block text-small font-medium text-ink-800">
           Cell
         </label>
-        <select id={selectId} className={`${inputClass} mt-1 w-72`} value={Math.min(selected, cells.length - 1)} onChange={(event) => setSelected(Number(event.target.value))}>
+        <select id={selectId} className={`${inputClass} mt-1 w-80 max-w-full`} value={Math.min(selected, cells.length - 1)} onChange={(event) => setSelected(Number(event.target.value))}>
           {cells.map((c, i) => (
             <option key={c.cellId} value={i}>
               {c.brand} in {c.market}

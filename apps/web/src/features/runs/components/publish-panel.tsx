@@ -69,7 +69,7 @@ export function PublishPanel({ run }: { run: Run }) {
               maxLength={2000}
               aria-invalid={reasonError ? true : undefined}
               aria-describedby={describedBy("publish-reason", { help: true, error: reasonError })}
-              className={`${inputClass} mt-1`}
+              className={`${inputClass} mt-1 w-full`}
               {...form.register("reason")}
             />
             <p id="publish-reason-help" className="mt-1 text-caption text-ink-600">

@@ -127,8 +127,8 @@ export function RunDetail({ runId, runsHref, runHref, outcomeName }: RunDetailPr
             {run.status === "succeeded" ? <TrustMark state={trustStateOf(run.trust.trustworthy)} publishReason={run.publication?.reason} /> : null}
             {run.current ? <span className="rounded-sm bg-stream-100 px-1.5 text-caption font-semibold text-stream-800">current fit</span> : null}
             <span className="text-ink-700">
-              {run.createdBy ? `Started by ${run.createdBy.name}` : "Started"} {formatDateTime(run.createdAt)}
-              {seconds !== null ? ` · ${formatDuration(seconds)}` : ""}
+              {run.createdBy ? `Started by ${run.createdBy.name} on` : "Started"} {formatDateTime(run.createdAt)}
+              {seconds !== null ? ` · ${isActive(run) ? "running for" : "took"} ${formatDuration(seconds)}` : ""}
             </span>
           </span>
         }

@@ -93,7 +93,7 @@ export function TracePlots({ traces }: { traces: ParameterTrace[] }) {
             {trace.label} <code className="ml-1 font-mono text-caption font-normal text-ink-600">{trace.name}</code>
           </h3>
           <p className="text-small text-ink-700">
-            Shown because: {trace.why}. R-hat {formatNumber(trace.rhat, 4)}, bulk ESS {formatNumber(trace.essBulk, 4)}.
+            Shown because: {trace.why}. R-hat {formatNumber(trace.rhat, 4)}, bulk ESS {trace.essBulk === null ? "–" : Math.round(trace.essBulk)}.
           </p>
           <div className="grid gap-6 xl:grid-cols-2">
             <TraceChart trace={trace} />

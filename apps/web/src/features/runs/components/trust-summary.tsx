@@ -17,8 +17,8 @@ function checksOf(model: ModelDiagnostics): Check[] {
   const lowestEbfmi = ebfmi.length > 0 ? Math.min(...ebfmi) : null;
   return [
     { label: "Largest R-hat", value: formatNumber(model.maxRhat, 4), rule: `at most ${RHAT_LIMIT}`, ok: model.maxRhat === null ? null : model.maxRhat <= RHAT_LIMIT },
-    { label: "Smallest bulk ESS", value: formatNumber(model.minEssBulk, 4), rule: `at least ${ESS_LIMIT}`, ok: model.minEssBulk === null ? null : model.minEssBulk >= ESS_LIMIT },
-    { label: "Smallest tail ESS", value: formatNumber(model.minEssTail, 4), rule: "for the 5 % and 95 % quantiles", ok: null },
+    { label: "Smallest bulk ESS", value: model.minEssBulk === null ? "–" : String(Math.round(model.minEssBulk)), rule: `at least ${ESS_LIMIT}`, ok: model.minEssBulk === null ? null : model.minEssBulk >= ESS_LIMIT },
+    { label: "Smallest tail ESS", value: model.minEssTail === null ? "–" : String(Math.round(model.minEssTail)), rule: "for the 5 % and 95 % quantiles", ok: null },
     { label: "Divergent transitions", value: String(model.divergences), rule: "none after warm-up", ok: model.divergences === 0 },
     { label: "Tree-depth limit reached", value: String(model.treeDepthHits), rule: "a sign of slow exploration", ok: null },
     {

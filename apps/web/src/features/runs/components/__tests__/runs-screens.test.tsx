@@ -132,10 +132,16 @@ describe("run report", () => {
     renderReport(testRun({ trust: untrustworthyTrust }));
     const table = await screen.findByRole("table", { name: "Diagnostics per parameter" });
     const rows = within(table).getAllByRole("row").slice(1);
-    expect(rows.map((row) => within(row).getAllByRole("cell")[0]?.textContent)).toEqual(["Portfolio effect, search", "Carry-over, search", "Noise, Fennick in Ardeval"]);
+    // Worst R-hat first; a parameter without an R-hat (a constant) goes last.
+    expect(rows.map((row) => within(row).getAllByRole("cell")[0]?.textContent)).toEqual([
+      "Portfolio effect, searchmu[search]",
+      "Carry-over, searchalpha[search]",
+      "Noise, Fennick in Ardevalsigma[0]",
+    ]);
     expect(within(rows[0]!).getByText("(above 1.01)")).toBeTruthy();
     expect(within(rows[0]!).getByText("(below 400)")).toBeTruthy();
-    expect(within(rows[2]!).getAllByRole("cell")[7]?.textContent).toBe("–");
+    expect(within(rows[0]!).getAllByRole("cell")[3]?.textContent).toBe("−4.6");
+    expect(within(rows[2]!).getAllByRole("cell")[6]?.textContent).toBe("–");
     expect(screen.getAllByRole("button", { name: "Export CSV" }).length).toBeGreaterThan(0);
   });
 
