@@ -31,8 +31,11 @@ export interface DrawsOfChain {
   readonly draws: Float64Array;
 }
 
+/** The fit's result without its draw set: the draws travel thinned, in `draws`. */
+export type FitSummaries = Omit<FitResult, "drawSet">;
+
 export interface FitJobOutput {
-  readonly result: FitResult;
+  readonly result: FitSummaries;
   /** The job's cellIds, echoed so the result is stored with them. */
   readonly cellIds: readonly string[];
   readonly parameters: readonly ParameterDiagnostic[];

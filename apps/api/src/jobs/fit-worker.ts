@@ -56,7 +56,7 @@ async function runFit(input: FitJobInput, options: FitWorkerOptions): Promise<vo
   };
 
   try {
-    const result = await fitPortfolio(data, input.options, {
+    const { drawSet: _allDraws, ...result } = await fitPortfolio(data, input.options, {
       runChains,
       onProgress: (progress) => {
         const stageBefore = tracker.stage;

@@ -146,8 +146,12 @@ describe("a small fit", () => {
     const report = runReportSchema.parse((await analyst.get(`/api/runs/${run.id}/report`).expect(200)).body);
     const again = posteriorPredictiveBands(set, createRandomSource(quickFit.seed ^ 0x5bd1e995));
     expect(Array.from(again[1]!.q50)).toEqual(report.predictiveCheck[1]!.q50);
-    const kinds = (await t.db.select({ kind: runResults.kind }).from(runResults).where(eq(runResults.runId, run.id))).map((r) => r.kind).sort();
-    expect(kinds).toEqual(["fit", "report"]);
+    const stored = await t.db.select().from(runResults).where(eq(runResults.runId, run.id));
+    expect(stored.map((r) => r.kind).sort()).toEqual(["fit", "report"]);
+    // The draws live in run_draws only, not in the JSON summaries.
+    const fit = stored.find((r) => r.kind === "fit")!.summaries as Record<string, unknown>;
+    expect(fit).not.toHaveProperty("drawSet");
+    expect(fit.cellIds).toHaveLength(3);
   });
 
   it("is refused to market managers and portfolio leads on every run route", async () => {
@@ -182,6 +186,9 @@ describe("a small fit", () => {
     expect(all.caution).toBe(modelCaution);
     expect(all.cells).toHaveLength(6);
     expect(all.channels.map((c) => c.channel)).toEqual(["search", "social"]);
+    // With the no-pooling comparison: pooling factors per level and channel, shrinkage per cell.
+    expect(all.poolingFactors.length).toBeGreaterThan(0);
+    expect(all.cells.every((c) => c.cac0Unpooled !== null)).toBe(true);
 
     const [veltria] = await t.db.select().from(markets).where(eq(markets.code, "veltria"));
     const mine = runResultsSchema.parse((await manager.get("/api/runs/current").expect(200)).body);

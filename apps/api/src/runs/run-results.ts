@@ -14,7 +14,8 @@ import {
   type RunReport,
   type RunResults,
 } from "@tributary/contracts";
-import type { DrawSet, FitResult } from "@tributary/stats";
+import type { DrawSet } from "@tributary/stats";
+import type { FitSummaries } from "../jobs/fit-job";
 import type { MarketScope } from "../access/route-table";
 import type { Queryable } from "../db/client";
 import { cells, runDraws, runResults, runs, workspaceSettings } from "../db/schema";
@@ -36,7 +37,7 @@ function requireSucceeded(run: Run): void {
 }
 
 /** The fit's result as stored, with the workspace cell id of each of its cell indices. */
-export type StoredFitResult = FitResult & { readonly cellIds: readonly string[] };
+export type StoredFitResult = FitSummaries & { readonly cellIds: readonly string[] };
 
 /** Workspace ids (cell, brand, market) of the fit's cells, by cell index. */
 async function cellRefs(db: Queryable, cellIds: readonly string[]) {
@@ -95,7 +96,7 @@ interface StoredReport {
 export async function runReportOf(db: Queryable, run: Run): Promise<RunReport> {
   requireSucceeded(run);
   const [result, report] = await Promise.all([
-    storedResult<FitResult>(db, run.id, resultKinds.fit),
+    storedResult<FitSummaries>(db, run.id, resultKinds.fit),
     storedResult<StoredReport>(db, run.id, resultKinds.report),
   ]);
   return {
