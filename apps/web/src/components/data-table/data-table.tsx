@@ -40,6 +40,8 @@ type DataTableProps<Row> = {
   filterable?: boolean;
   /** Rows per page; without it every row is shown. */
   pageSize?: number;
+  /** Narrower cell padding, for tables with many numeric columns. */
+  compact?: boolean;
 };
 
 const matchesText: FilterFn<unknown> = (row, _columnId, query: string) => {
@@ -67,7 +69,9 @@ export function DataTable<Row>({
   initialSort,
   filterable = true,
   pageSize,
+  compact = false,
 }: DataTableProps<Row>) {
+  const cellPadding = compact ? "px-2.5 py-2" : "px-4 py-2";
   const filterId = useId();
   const [sorting, setSorting] = useState<SortingState>(initialSort ? [{ id: initialSort.id, desc: initialSort.desc ?? false }] : []);
   const [filter, setFilter] = useState("");
@@ -167,7 +171,7 @@ export function DataTable<Row>({
                       key={header.id}
                       scope="col"
                       aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}
-                      className={`px-4 py-2 font-semibold text-ink-800 ${alignEnd ? "text-right" : "text-left"}`}
+                      className={`${cellPadding} font-semibold text-ink-800 ${compact ? "whitespace-nowrap" : ""} ${alignEnd ? "text-right" : "text-left"}`}
                     >
                       {header.column.getCanSort() ? (
                         <button
@@ -200,7 +204,7 @@ export function DataTable<Row>({
                   {row.getVisibleCells().map((cell) => {
                     const alignEnd = columns.find((column) => column.id === cell.column.id)?.align === "end";
                     return (
-                      <td key={cell.id} className={`px-4 py-2 text-ink-900 ${alignEnd ? "text-right tabular-nums" : ""}`}>
+                      <td key={cell.id} className={`${cellPadding} text-ink-900 ${alignEnd ? "text-right tabular-nums" : ""}`}>
                         {flexRender(cell.column.columnDef.cell, cell.getContext())}
                       </td>
                     );

@@ -78,7 +78,7 @@ function LiftTestTable({ datasetId, tests, currency }: { datasetId: string; test
         </p>
       ) : null}
       <DataTable
-        caption="Lift tests"
+        caption="Recorded lift tests"
         rows={tests}
         columns={columns}
         rowKey={(row) => row.id}

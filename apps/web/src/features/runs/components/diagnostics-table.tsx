@@ -25,7 +25,7 @@ const columns: DataTableColumn<ParameterDiagnostic>[] = [
     header: "Parameter",
     value: (row) => row.label,
     cell: (row) => (
-      <span className="block min-w-56">
+      <span className="block min-w-48">
         {row.label}
         <code className="block font-mono text-caption text-ink-600">{row.name}</code>
       </span>
@@ -52,7 +52,7 @@ const columns: DataTableColumn<ParameterDiagnostic>[] = [
     align: "end",
   },
   { id: "essTail", header: "Tail ESS", value: (row) => (row.essTail === null ? null : Math.round(row.essTail)), align: "end" },
-  { id: "mcse", header: "MCSE of mean", value: (row) => round(row.mcseMean, 3), cell: (row) => formatNumber(row.mcseMean, 3), align: "end" },
+  { id: "mcse", header: "MCSE (mean)", value: (row) => round(row.mcseMean, 3), cell: (row) => formatNumber(row.mcseMean, 3), align: "end" },
 ];
 
 /** Every parameter's posterior summary and convergence numbers; worst R-hat first. */
@@ -66,6 +66,7 @@ export function DiagnosticsTable({ parameters }: { parameters: ParameterDiagnost
       csvFileName="run-diagnostics.csv"
       initialSort={{ id: "rhat", desc: true }}
       pageSize={20}
+      compact
       emptyMessage="This run has no parameter summaries."
     />
   );
