@@ -99,3 +99,22 @@ export type { CellPrediction } from "./decisions/predictive";
 export { poolingFactor } from "./shrinkage/pooling-factor";
 export { portfolioShrinkage, shrinkageInputsFrom } from "./shrinkage/portfolio-shrinkage";
 export type { ShrinkageReport, CellShrinkage, LevelPooling, CandidateOutlier, ShrinkageInputs, OutlierRule } from "./shrinkage/portfolio-shrinkage";
+
+// Planning: spend plans and scenarios, their forecast and comparison, the budget split.
+export { currentPlan, spendPlanFrom, validateSpendPlan, planIndex, planSpendByCell } from "./planning/spend-plan";
+export type { SpendPlan, CurrentPlan, CurrentPlanOptions } from "./planning/spend-plan";
+export { MAX_PLAN_HORIZON, DEFAULT_PLAN_HORIZON, DEFAULT_RECENT_WEEKS } from "./planning/plan-cells";
+export type { CellRef, PlanCell } from "./planning/plan-cells";
+export type { LineTarget } from "./planning/line-target";
+export { applyScenario } from "./planning/scenario";
+export type { ScenarioOperation, ScenarioTarget } from "./planning/scenario";
+export { forecastPlan, PLAN_CAUTION } from "./planning/plan-forecast";
+export type { PlanForecast, PlanForecastOptions, CellPlanForecast, PlanWeekForecast, SelectionWeekForecast } from "./planning/plan-forecast";
+export { comparePlans } from "./planning/plan-comparison";
+export type { PlanComparison, PlanDifference, CellPlanDifference } from "./planning/plan-comparison";
+export { costPerExtraCustomer } from "./planning/cost-per-extra-customer";
+export type { CostPerExtraCustomer, RatioInterval } from "./planning/cost-per-extra-customer";
+export { budgetSplit, budgetSplitPlan } from "./planning/budget-split";
+export type { BudgetSplitInput, BudgetSplitResult, BudgetSplitLine, BudgetBound, BudgetObjective, BudgetOutcomeComparison } from "./planning/budget-split";
+export type { RiskAttitude } from "./planning/risk-attitude";
+export type { OutcomeDistribution } from "./planning/outcome-distribution";

@@ -215,6 +215,7 @@ export function solveEqualMarginalReturn(problem: MarginalProblem): MarginalSolu
   let iterations = 0;
   const totalAt = (u: number): number => {
     iterations++;
+
     let total = 0;
     for (let l = 0; l < n; l++) {
       if (grids[l] === null) concaveLine(l, u - logWeight[l]!);
@@ -265,21 +266,18 @@ export function solveEqualMarginalReturn(problem: MarginalProblem): MarginalSolu
     return finish(nu, true, allConcave);
   }
 
-  // Bracket log ν: F(u) = Σ s_l(u) − budget is non-increasing in u. Start from the mean
-  // log marginal return at an even split.
+  // Bracket log ν: F(u) = Σ s_l(u) − budget is non-increasing in u. Start from the median
+  // log marginal return at an even split (a mean would follow lines saturated far below it).
   let u: number;
   {
     const share = budget / n;
-    let sum = 0;
-    let count = 0;
+    const logs: number[] = [];
     for (let l = 0; l < n; l++) {
       R.logSlope(l, Math.min(Math.max(share, lower[l]!), upper[l]!), scratch);
-      if (Number.isFinite(scratch[0]!)) {
-        sum += scratch[0]! + logWeight[l]!;
-        count++;
-      }
+      if (Number.isFinite(scratch[0]!)) logs.push(scratch[0]! + logWeight[l]!);
     }
-    u = Math.max(count > 0 ? sum / count : 0, minU);
+    logs.sort((a, b) => a - b);
+    u = Math.max(logs.length > 0 ? logs[logs.length >> 1]! : 0, minU);
   }
   let f = totalAt(u) - budget;
   const record = (at: number, value: number): void => {

@@ -132,40 +132,36 @@ export class LineResponses {
     return Math.exp(scratch[0]!);
   }
 
-  /** Adds scale·R_d(s) to out[d] for every draw. */
-  addResponseDraws(l: number, s: number, scale: number, out: Float64Array): void {
+  /**
+   * Adds scale·R_d(s) to out[d] for every draw and, when `slopes` is given, writes R′_d(s)
+   * to slopes[slopeOffset + d] from the same exponentials.
+   */
+  addResponseDraws(l: number, s: number, scale: number, out: Float64Array, slopes?: Float64Array, slopeOffset = 0): void {
     const D = this.drawCount;
     const o = l * D;
     if (!this.hill) {
-      for (let d = 0; d < D; d++) out[d] = out[d]! - scale * this.beta[o + d]! * this.theta[o + d]! * Math.expm1(-s * this.invTheta[o + d]!);
-    } else if (s > 0) {
-      const ls = Math.log(s);
       for (let d = 0; d < D; d++) {
-        const u = Math.exp(this.shape[o + d]! * (ls - this.logTheta[o + d]!));
-        out[d] = out[d]! + (scale * this.beta[o + d]! * this.theta[o + d]! * u) / (1 + u);
+        const e = Math.exp(-s * this.invTheta[o + d]!);
+        const beta = this.beta[o + d]!;
+        out[d] = out[d]! + scale * beta * this.theta[o + d]! * (1 - e);
+        if (slopes !== undefined) slopes[slopeOffset + d] = beta * e;
       }
+      return;
     }
-  }
-
-  /** Σ_d coef[d]·R′_d(s): the derivative in s of Σ_d coef[d]·R_d(s). */
-  weightedSlope(l: number, s: number, coef: Float64Array): number {
-    const D = this.drawCount;
-    const o = l * D;
-    let sum = 0;
-    if (!this.hill) {
-      for (let d = 0; d < D; d++) sum += coef[d]! * this.beta[o + d]! * Math.exp(-s * this.invTheta[o + d]!);
-      return sum;
-    }
+    const ls = Math.log(s);
     for (let d = 0; d < D; d++) {
       const k = this.shape[o + d]!;
       const beta = this.beta[o + d]!;
-      // At zero spend the slope is infinite for k < 1: take it a hair (1e-9·θ) above zero.
-      const r = Math.max(s * this.invTheta[o + d]!, 1e-9);
-      const u = Math.pow(r, k);
-      const q = 1 / (1 + u);
-      sum += (coef[d]! * beta * k * u * q * q) / r;
+      const lr = ls - this.logTheta[o + d]!; // log(s/θ)
+      const u = s > 0 ? Math.exp(k * lr) : 0;
+      out[d] = out[d]! + (scale * beta * this.theta[o + d]! * u) / (1 + u);
+      if (slopes === undefined) continue;
+      // The slope β·k·r^{k−1}/(1+u)² is infinite at zero spend when k < 1: take r ≥ 1e-9.
+      const lrSlope = Math.max(lr, -20.72326583694641);
+      const uSlope = lrSlope === lr ? u : Math.exp(k * lrSlope);
+      const q = 1 / (1 + uSlope);
+      slopes[slopeOffset + d] = beta * k * uSlope * q * q * Math.exp(-lrSlope);
     }
-    return sum;
   }
 
   /**

@@ -20,13 +20,13 @@ export interface DrawOutcome {
   readonly horizon: number;
 }
 
-/** Writes Y_d for every draw into `out`. */
-export function outcomeDraws(problem: DrawOutcome, spend: Float64Array, out: Float64Array): void {
+/** Writes Y_d for every draw into `out`, and R′_ld(s_l) at slopes[l·D + d] when `slopes` is given. */
+export function outcomeDraws(problem: DrawOutcome, spend: Float64Array, out: Float64Array, slopes?: Float64Array): void {
   const { responses: R, weight, horizon: H } = problem;
   out.fill(0);
   let cost = 0;
   for (let l = 0; l < R.lineCount; l++) {
-    R.addResponseDraws(l, spend[l]!, H * weight[l]!, out);
+    R.addResponseDraws(l, spend[l]!, H * weight[l]!, out, slopes, l * R.drawCount);
     cost += spend[l]!;
   }
   if (problem.spendCost !== 0) for (let d = 0; d < out.length; d++) out[d] = out[d]! - H * problem.spendCost * cost;
@@ -64,15 +64,17 @@ export interface SpendBox {
 }
 
 /**
- * Euclidean projection onto {lower ≤ s ≤ upper, Σ s = budget} (or ≤ budget): s = clamp(y − τ)
+ * Projection onto {lower ≤ s ≤ upper, Σ s = budget} (or ≤ budget) in the metric
+ * Σ (s_l − y_l)² / scale_l (Euclidean when `scale` is left out): s_l = clamp(y_l − τ·scale_l)
  * with τ found by bisection, then the rounding residual moved onto lines with room.
  */
-export function projectOntoBudget(box: SpendBox, y: Float64Array, out: Float64Array): void {
+export function projectOntoBudget(box: SpendBox, y: Float64Array, out: Float64Array, scale?: Float64Array): void {
   const n = y.length;
   const { lower, upper, budget } = box;
+  const w = (l: number): number => (scale === undefined ? 1 : scale[l]!);
   const clampedSum = (tau: number): number => {
     let sum = 0;
-    for (let l = 0; l < n; l++) sum += Math.min(Math.max(y[l]! - tau, lower[l]!), upper[l]!);
+    for (let l = 0; l < n; l++) sum += Math.min(Math.max(y[l]! - tau * w(l), lower[l]!), upper[l]!);
     return sum;
   };
   if (box.spendAtMost && clampedSum(0) <= budget) {
@@ -82,8 +84,8 @@ export function projectOntoBudget(box: SpendBox, y: Float64Array, out: Float64Ar
   let hi = -Infinity; // Σ(τ = hi) = Σ lower ≤ budget
   let lo = Infinity; // Σ(τ = lo) ≥ budget
   for (let l = 0; l < n; l++) {
-    hi = Math.max(hi, y[l]! - lower[l]!);
-    lo = Math.min(lo, y[l]! - lower[l]! - budget, Number.isFinite(upper[l]!) ? y[l]! - upper[l]! : Infinity);
+    hi = Math.max(hi, (y[l]! - lower[l]!) / w(l));
+    lo = Math.min(lo, (y[l]! - lower[l]! - budget) / w(l), Number.isFinite(upper[l]!) ? (y[l]! - upper[l]!) / w(l) : Infinity);
   }
   for (let it = 0; it < 200 && hi - lo > 0; it++) {
     const mid = 0.5 * (lo + hi);
@@ -93,7 +95,7 @@ export function projectOntoBudget(box: SpendBox, y: Float64Array, out: Float64Ar
   }
   let sum = 0;
   for (let l = 0; l < n; l++) {
-    out[l] = Math.min(Math.max(y[l]! - lo, lower[l]!), upper[l]!);
+    out[l] = Math.min(Math.max(y[l]! - lo * w(l), lower[l]!), upper[l]!);
     sum += out[l]!;
   }
   let residual = budget - sum;
@@ -115,7 +117,8 @@ export interface RiskOptimum {
 
 /**
  * Maximises a risk criterion of the outcome over the draws by projected gradient ascent
- * (Barzilai–Borwein steps with Armijo backtracking; Birgin, Martínez & Raydan 2000, SPG)
+ * (Barzilai–Borwein steps with Armijo backtracking; Birgin, Martínez & Raydan 2000, SPG),
+ * with a diagonal metric from each line's expected curvature
  * from `start`, keeping every iterate feasible. A lower quantile is smoothed with a
  * Gaussian kernel over the sorted draws, whose width shrinks stage by stage to the exact
  * quantile. The allocation returned is the best iterate on the exact criterion, so it is
@@ -131,6 +134,7 @@ export function optimiseRisk(problem: DrawOutcome, box: SpendBox, risk: RiskAtti
   const order = new Uint32Array(D);
   const sorted = new Float64Array(D);
   const kernel = new Float64Array(D);
+  const slopes = new Float64Array(n * D);
 
   // Kernel weights over sorted positions for a quantile; bandwidth 0 is the type-7 quantile.
   const setKernel = (q: number, bandwidth: number): void => {
@@ -153,7 +157,7 @@ export function optimiseRisk(problem: DrawOutcome, box: SpendBox, risk: RiskAtti
 
   // Smoothed criterion at the current draws; fills coef = d criterion / d Y_d. Returns [smoothed, exact].
   const evaluate = (spend: Float64Array, withCoef: boolean): [number, number] => {
-    outcomeDraws(problem, spend, draws);
+    outcomeDraws(problem, spend, draws, withCoef ? slopes : undefined);
     if (risk.kind === "lower-quantile") {
       for (let d = 0; d < D; d++) order[d] = d;
       order.sort((a, b) => draws[a]! - draws[b]!);
@@ -183,10 +187,15 @@ export function optimiseRisk(problem: DrawOutcome, box: SpendBox, risk: RiskAtti
     return [value, value];
   };
 
-  const gradient = (spend: Float64Array, out: Float64Array): void => {
+  // Gradient at the spend of the last evaluation with coefficients (its slopes and coef).
+  const gradient = (out: Float64Array): void => {
     let coefSum = 0;
     for (let d = 0; d < D; d++) coefSum += coef[d]!;
-    for (let l = 0; l < n; l++) out[l] = H * (problem.weight[l]! * R.weightedSlope(l, spend[l]!, coef) - problem.spendCost * coefSum);
+    for (let l = 0; l < n; l++) {
+      let sum = 0;
+      for (let d = 0; d < D; d++) sum += coef[d]! * slopes[l * D + d]!;
+      out[l] = H * (problem.weight[l]! * sum - problem.spendCost * coefSum);
+    }
   };
 
   const bandwidths = risk.kind === "lower-quantile" ? [...[0.1, 0.05, 0.02, 0.01].filter((b) => b > 4 / D), 0] : [0];
@@ -205,22 +214,35 @@ export function optimiseRisk(problem: DrawOutcome, box: SpendBox, risk: RiskAtti
   let iterations = 0;
   const perStage = Math.max(20, Math.floor(maxIterations / bandwidths.length));
 
+  const metric = new Float64Array(n);
+  const scratch = new Float64Array(2);
   for (const bandwidth of bandwidths) {
     if (risk.kind === "lower-quantile") setKernel(risk.quantile, bandwidth);
+    // Diagonal scaling by the inverse expected curvature H·w·|E R″| of each line at the
+    // stage's start: lines of very different size then move at their own pace.
+    let maxCurvature = 0;
+    for (let l = 0; l < n; l++) {
+      R.logSlope(l, Math.max(x[l]!, 1e-9 * R.typicalScale(l)), scratch);
+      const c = H * problem.weight[l]! * Math.abs(scratch[1]! * Math.exp(scratch[0]!));
+      metric[l] = Number.isFinite(c) ? c : 0;
+      maxCurvature = Math.max(maxCurvature, metric[l]!);
+    }
+    if (!(maxCurvature > 0)) metric.fill(1);
+    else for (let l = 0; l < n; l++) metric[l] = 1 / Math.max(metric[l]!, 1e-9 * maxCurvature);
     let [current] = evaluate(x, true);
-    gradient(x, g);
+    gradient(g);
     let gMax = 0;
-    for (let l = 0; l < n; l++) gMax = Math.max(gMax, Math.abs(g[l]!));
+    for (let l = 0; l < n; l++) gMax = Math.max(gMax, Math.abs(g[l]! * metric[l]!));
     if (!(gMax > 0)) continue;
-    let t = (0.05 * scaleBudget) / gMax;
+    let t = Math.min(1, (0.05 * scaleBudget) / gMax);
     let stall = 0;
     for (let it = 0; it < perStage; it++) {
       iterations++;
       let accepted = false;
       let value = current;
       for (let back = 0; back < 40; back++) {
-        for (let l = 0; l < n; l++) step[l] = x[l]! + t * g[l]!;
-        projectOntoBudget(box, step, trial);
+        for (let l = 0; l < n; l++) step[l] = x[l]! + t * metric[l]! * g[l]!;
+        projectOntoBudget(box, step, trial, metric);
         let ascent = 0;
         for (let l = 0; l < n; l++) ascent += g[l]! * (trial[l]! - x[l]!);
         if (!(ascent > 0)) break;
@@ -240,12 +262,12 @@ export function optimiseRisk(problem: DrawOutcome, box: SpendBox, risk: RiskAtti
       xOld.set(x);
       gOld.set(g);
       x.set(trial);
-      gradient(x, g); // coef was set by the accepted evaluation
+      gradient(g); // coef and slopes are those of the accepted evaluation
       let ss = 0;
       let sy = 0;
       for (let l = 0; l < n; l++) {
         const sl = x[l]! - xOld[l]!;
-        ss += sl * sl;
+        ss += (sl * sl) / metric[l]!;
         sy += sl * (g[l]! - gOld[l]!);
       }
       const improvement = value - current;
