@@ -385,5 +385,5 @@ function checkRisk(risk: RiskAttitude): void {
 }
 
 function round(x: number): string {
-  return x.toLocaleString("en-GB", { maximumFractionDigits: 0 });
+  return String(Math.round(x));
 }

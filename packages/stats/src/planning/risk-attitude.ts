@@ -116,9 +116,10 @@ export interface RiskOptimum {
 }
 
 /**
- * Maximises a risk criterion of the outcome over the draws by projected gradient ascent
- * (Barzilai–Borwein steps with Armijo backtracking; Birgin, Martínez & Raydan 2000, SPG),
- * with a diagonal metric from each line's expected curvature
+ * Maximises a risk criterion of the outcome over the draws by projected gradient ascent:
+ * spectral (Barzilai–Borwein) steps projected onto the feasible set, as in Birgin,
+ * Martínez & Raydan (SIAM J. Optim. 10(4), 2000), here with a monotone Armijo search and
+ * a diagonal metric from each line's expected curvature
  * from `start`, keeping every iterate feasible. A lower quantile is smoothed with a
  * Gaussian kernel over the sorted draws, whose width shrinks stage by stage to the exact
  * quantile. The allocation returned is the best iterate on the exact criterion, so it is

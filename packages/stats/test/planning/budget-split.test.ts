@@ -303,6 +303,13 @@ describe("budget split with a risk attitude", () => {
     expect(mine).toBeGreaterThan(theirs + 1e-6 * Math.abs(theirs)); // a real gain on this problem
   });
 
+  it("with no penalty on the spread, stays at the expected-value optimum", () => {
+    const r = budgetSplit(twoCells, { totalBudget: total, horizon: H, bounds, risk: { kind: "mean-minus-sd", penalty: 0 } });
+    const ev = Array.from(r.expectedValueAllocation!, (x) => x / H);
+    expect(Math.abs(r.riskCriterion!.allocation - r.riskCriterion!.expectedValueSolution) / r.riskCriterion!.allocation).toBeLessThan(1e-9);
+    weekly(r).forEach((x, k) => expect(Math.abs(x - ev[k]!)).toBeLessThan(1e-3 * (total / H)));
+  });
+
   it("keeps a profit split within the budget under a risk attitude", () => {
     const r = budgetSplit(twoCells, {
       totalBudget: total,
