@@ -49,9 +49,10 @@ const profit = time(RUNS, (i) => budgetSplit(set, { totalBudget: currentTotal * 
 const bounded = time(RUNS, (i) =>
   budgetSplit(set, {
     totalBudget: currentTotal * (1 + 0.01 * i),
+    // every line of the last channel gets at least 1 %, no line of the first more than 0.5 %
     bounds: [
-      { target: { channels: [set.channels[0]!] }, lower: 0.05 * currentTotal / set.cells.length },
-      { target: { channels: [set.channels[1]!] }, upper: 0.5 * currentTotal / set.cells.length },
+      { target: { channels: [set.channels[set.channels.length - 1]!] }, lower: 0.01 * currentTotal },
+      { target: { channels: [set.channels[0]!] }, upper: 0.005 * currentTotal },
     ],
   }),
 );

@@ -1,5 +1,6 @@
 import { summariseDraws, type DrawSummary } from "../decisions/draw-summary";
-import { predictCell } from "../decisions/predictive";
+import { baselineAt, contributionSeries } from "../decisions/media-contribution";
+import { drawNoise } from "../decisions/predictive";
 import type { DrawSet } from "../decisions/draw-set";
 import { mondayOfAbsoluteWeek } from "../model/absolute-week";
 import { createRandomSource } from "../rng/create-random-source";
@@ -88,14 +89,36 @@ export function forecastPlan(set: DrawSet, plan: SpendPlan, options: PlanForecas
     const g = planCell.cellIndex;
     const cell = set.cells[g]!;
     const T = cell.weeks;
-    // History then plan, so that the adstock carries over the last L − 1 weeks of real spend.
+    // The last L − 1 weeks of real spend, then the plan: the truncated adstock of a plan
+    // week looks back no further, so the carry-over is exact without the older history.
+    const from = Math.max(0, T - (set.maxLag - 1));
+    const length = T - from + H;
     const series = cell.spend.map((history, c) => {
-      const s = new Float64Array(T + H);
-      s.set(history.subarray(0, T));
-      for (let h = 0; h < H; h++) s[T + h] = plan.spend[planIndex(plan, i, c, h)]!;
+      const s = new Float64Array(length);
+      s.set(history.subarray(from, T));
+      for (let h = 0; h < H; h++) s[T - from + h] = plan.spend[planIndex(plan, i, c, h)]!;
       return s;
     });
-    const p = predictCell(set, g, series, T, H, createRandomSource(seed, g));
+    const p = { mean: new Float64Array(D * H), replicated: new Float64Array(D * H), media: new Float64Array(D * H) };
+    const contribution = new Float64Array(length);
+    const buffer = new Float64Array(length);
+    // Same order of noise draws as the run's posterior predictive (draw by draw, week by week).
+    const rng = createRandomSource(seed, g);
+    const G = set.cells.length;
+    for (let d = 0; d < D; d++) {
+      for (let h = 0; h < H; h++) p.mean[d * H + h] = baselineAt(set, d, g, T + h);
+      for (let c = 0; c < C; c++) {
+        contributionSeries(set, d, g, c, series[c]!, contribution, buffer);
+        for (let h = 0; h < H; h++) {
+          const v = contribution[T - from + h]!;
+          p.media[d * H + h] = p.media[d * H + h]! + v;
+          p.mean[d * H + h] = p.mean[d * H + h]! + v;
+        }
+      }
+      const sigma = set.sigma[d * G + g]!;
+      const nu = set.nu[d * G + g]!;
+      for (let h = 0; h < H; h++) p.replicated[d * H + h] = p.mean[d * H + h]! + drawNoise(rng, sigma, nu);
+    }
     const totalDraws = new Float64Array(D);
     const expectedTotalDraws = new Float64Array(D);
     for (let d = 0; d < D; d++) {
@@ -122,9 +145,7 @@ export function forecastPlan(set: DrawSet, plan: SpendPlan, options: PlanForecas
       selectionSpend[h] = selectionSpend[h]! + spend;
       for (let d = 0; d < D; d++) {
         column[d] = p.replicated[d * H + h]!;
-        let m = 0;
-        for (let c = 0; c < C; c++) m += p.contribution[c]![d * H + h]!;
-        media[d] = m;
+        media[d] = p.media[d * H + h]!;
       }
       return {
         planWeek: h,

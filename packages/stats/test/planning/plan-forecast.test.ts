@@ -1,5 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { summariseDraws } from "../../src/decisions/draw-summary";
+import { forecastSpendPlan } from "../../src/decisions/forecast";
+import { createRandomSource } from "../../src/rng/create-random-source";
 import { absoluteWeekOf } from "../../src/model/absolute-week";
 import { costPerExtraCustomer } from "../../src/planning/cost-per-extra-customer";
 import { comparePlans } from "../../src/planning/plan-comparison";
@@ -107,6 +109,20 @@ describe("plan forecast", () => {
     // The week summaries are the summaries of the replicated draws.
     const column = Float64Array.from({ length: 3 }, (_, d) => a.cells[1]!.replicated[d * 6 + 4]!);
     expect(a.cells[1]!.weeks[4]!.outcome).toEqual(summariseDraws(column));
+  });
+
+  it("agrees with the single-cell forecast of the decisions module given the same noise stream", () => {
+    const f = forecastPlan(set, scenario, { seed: 4 });
+    for (let i = 0; i < 2; i++) {
+      const rows = [0, 1].map((c) => Array.from({ length: 6 }, (_, h) => scenario.spend[(i * 2 + c) * 6 + h]!));
+      const single = forecastSpendPlan(set, i, rows, createRandomSource(4, i));
+      single.weeks.forEach((w, h) => {
+        expect(f.cells[i]!.weeks[h]!.week).toBe(w.week);
+        expect(f.cells[i]!.weeks[h]!.outcome.mean).toBeCloseTo(w.outcome.mean, 8);
+        expect(f.cells[i]!.weeks[h]!.outcome.q95).toBeCloseTo(w.outcome.q95, 8);
+      });
+      expect(f.cells[i]!.total.q05).toBeCloseTo(single.total.q05, 8);
+    }
   });
 
   it("draws noise with the fitted σ (many draws of one cell)", () => {
