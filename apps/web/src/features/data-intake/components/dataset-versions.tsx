@@ -19,7 +19,7 @@ const columns: DataTableColumn<DatasetVersion>[] = [
   { id: "createdBy", header: "By", value: (row) => row.createdBy?.name ?? null },
   { id: "fileName", header: "File", value: (row) => row.fileName },
   { id: "note", header: "Note", value: (row) => row.note },
-  { id: "rows", header: "Rows", value: (row) => row.rows, align: "end" },
+  { id: "rows", header: "Rows", value: (row) => row.rows, cell: (row) => row.rows.toLocaleString("en-GB"), align: "end" },
   { id: "cells", header: "Cells", value: (row) => row.cellCount, align: "end" },
   { id: "weeks", header: "Weeks", value: (row) => formatWeekRange(row.firstWeek, row.lastWeek) },
   { id: "channels", header: "Channels", value: (row) => row.channels.join(", ") },

@@ -28,7 +28,8 @@ export function LiftTestForm({ cells, channels, currency, onSubmit }: LiftTestFo
 
   const submit = form.handleSubmit(async (values) => {
     try {
-      await onSubmit(values);
+      // An empty note is no note.
+      await onSubmit(values.note ? values : { ...values, note: undefined });
       form.reset({ ...form.getValues(), firstWeek: "", lastWeek: "", spend: undefined, incrementalOutcome: undefined, standardError: undefined, note: "" });
     } catch (error) {
       const issues = error instanceof ApiError ? error.issues : [];

@@ -1,5 +1,5 @@
 import { wrap, type Remote } from "comlink";
-import { priorCheckApi, type PriorCheckApi, type PriorCheckRequest, type PriorCheckResponse } from "./prior-check-api";
+import type { PriorCheckApi, PriorCheckRequest, PriorCheckResponse } from "./prior-check-api";
 
 /** Something that answers prior-check requests: the worker, or (where there is no Worker) the same code inline. */
 export type PriorCheckRunner = {
@@ -18,6 +18,10 @@ export function createPriorCheckRunner(): PriorCheckRunner {
   };
 }
 
+/** Runs the check on the calling thread; the stats code is loaded only when first needed. */
 export function inlinePriorCheckRunner(): PriorCheckRunner {
-  return { run: async (request) => priorCheckApi.run(request), dispose: () => undefined };
+  return {
+    run: async (request) => (await import("./prior-check-api")).priorCheckApi.run(request),
+    dispose: () => undefined,
+  };
 }
