@@ -18,7 +18,8 @@ const downloads = mkdtempSync(join(tmpdir(), "tributary-downloads-"));
 
 beforeAll(async () => {
   server = await startServer();
-  session = await openBrowser();
+  // The narrowest desktop width the screens are made for.
+  session = await openBrowser({ width: 1280, height: 900 });
 });
 
 afterAll(async () => {

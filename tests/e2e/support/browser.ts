@@ -24,12 +24,12 @@ export type BrowserSession = {
   close: () => Promise<void>;
 };
 
-export async function openBrowser(): Promise<BrowserSession> {
+export async function openBrowser(viewport: { width: number; height: number } = { width: 1366, height: 900 }): Promise<BrowserSession> {
   const profileDir = mkdtempSync(join(tmpdir(), "tributary-chromium-"));
   const context = await chromium.launchPersistentContext(profileDir, {
     executablePath: "/usr/bin/chromium",
     args: chromiumFlags,
-    viewport: { width: 1366, height: 900 },
+    viewport,
   });
   const page = context.pages()[0] ?? (await context.newPage());
   const problems: string[] = [];

@@ -34,9 +34,20 @@ const columns: DataTableColumn<ParameterDiagnostic>[] = [
   { id: "name", header: "Name in the model", value: (row) => row.name, csvOnly: true },
   { id: "mean", header: "Mean", value: (row) => round(row.mean, 4), cell: (row) => formatNumber(row.mean, 4), align: "end" },
   { id: "sd", header: "SD", value: (row) => round(row.sd, 3), cell: (row) => formatNumber(row.sd, 3), align: "end" },
-  { id: "q05", header: "5 %", value: (row) => round(row.q05, 4), cell: (row) => formatNumber(row.q05, 4), align: "end" },
   { id: "q50", header: "Median", value: (row) => round(row.q50, 4), cell: (row) => formatNumber(row.q50, 4), align: "end" },
-  { id: "q95", header: "95 %", value: (row) => round(row.q95, 4), cell: (row) => formatNumber(row.q95, 4), align: "end" },
+  {
+    id: "interval",
+    header: "90 % interval",
+    value: (row) => round(row.q95 - row.q05, 4),
+    cell: (row) => (
+      <span className="whitespace-nowrap">
+        {formatNumber(row.q05, 3)} to {formatNumber(row.q95, 3)}
+      </span>
+    ),
+    align: "end",
+  },
+  { id: "q05", header: "5 %", value: (row) => round(row.q05, 6), csvOnly: true },
+  { id: "q95", header: "95 %", value: (row) => round(row.q95, 6), csvOnly: true },
   {
     id: "rhat",
     header: "R-hat",

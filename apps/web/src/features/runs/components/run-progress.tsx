@@ -59,7 +59,7 @@ export function RunProgress({ progress, stream }: { progress: Progress; stream: 
               <th scope="col" className="w-2/5 py-1.5 pr-3 font-semibold">
                 Iterations
               </th>
-              <th scope="col" className="py-1.5 pr-3 text-right font-semibold">
+              <th scope="col" className="py-1.5 pr-3 text-right font-semibold" title="During warm-up some are expected; after it, any is a warning">
                 Divergences
               </th>
               <th scope="col" className="py-1.5 text-right font-semibold">
@@ -90,7 +90,9 @@ export function RunProgress({ progress, stream }: { progress: Progress; stream: 
                     </span>
                   </div>
                 </td>
-                <td className={`py-2 pr-3 text-right tabular-nums ${chain.divergences > 0 ? "font-semibold text-caution-700" : "text-ink-800"}`}>{chain.divergences}</td>
+                <td className={`py-2 pr-3 text-right tabular-nums ${chain.divergences > 0 && chain.phase === "sampling" ? "font-semibold text-caution-700" : "text-ink-800"}`}>
+                  {chain.divergences}
+                </td>
                 <td className="py-2 text-right tabular-nums text-ink-800">{chain.etaSeconds !== null ? formatDuration(chain.etaSeconds) : "–"}</td>
               </tr>
             ))}

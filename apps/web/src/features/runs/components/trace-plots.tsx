@@ -20,7 +20,7 @@ function TraceChart({ trace }: { trace: ParameterTrace }) {
         height: 220,
         marginLeft: 60,
         x: { label: "Draw after warm-up" },
-        y: { label: "Value", grid: true },
+        y: { label: "Value (the parameter's own scale)", grid: true },
         color: { legend: true, domain: chains, range: seriesColours() },
         marks: [Plot.lineY(rows, { x: "iteration", y: "value", stroke: "chain", strokeWidth: 1, strokeOpacity: 0.85 })],
       }),

@@ -140,8 +140,8 @@ describe("run report", () => {
     ]);
     expect(within(rows[0]!).getByText("(above 1.01)")).toBeTruthy();
     expect(within(rows[0]!).getByText("(below 400)")).toBeTruthy();
-    expect(within(rows[0]!).getAllByRole("cell")[3]?.textContent).toBe("−4.6");
-    expect(within(rows[2]!).getAllByRole("cell")[6]?.textContent).toBe("–");
+    expect(within(rows[0]!).getAllByRole("cell")[4]?.textContent).toBe("−4.6 to −3.6");
+    expect(within(rows[2]!).getAllByRole("cell")[5]?.textContent).toBe("–");
     expect(screen.getAllByRole("button", { name: "Export CSV" }).length).toBeGreaterThan(0);
   });
 
