@@ -154,7 +154,7 @@ function stanData(portfolio: PortfolioData) {
  * at a few points: differences from the first point must agree.
  */
 function densityCheck(dataFile: string, dir: string) {
-  const model = buildPortfolioModel(data, { ...options, centredCellMinSignal: Infinity });
+  const model = buildPortfolioModel(data, { ...options, cellEffectGuide: "none" });
   const lay = model.layout;
   const names = model.constrainedNames;
   const rng = createRandomSource(99);

@@ -45,8 +45,8 @@ const configurations: [string, boolean, PortfolioModelOptions][] = [
   ["Hill saturation, brand pooling, lift tests", false, { saturation: "hill", pooling: "brand", liftTests: smallLiftTests }],
   ["market pooling, L = 4, J = 1", false, { pooling: "market", maxLag: 4, seasonalityOrder: 1 }],
   ["cell-only pooling, J = 0", true, { pooling: "cell-only", seasonalityOrder: 0 }],
-  ["all cells centred", false, { centredCellMinSignal: -Infinity }],
-  ["all cells non-centred (as written in model.md)", false, { centredCellMinSignal: Infinity }],
+  ["explicit cell guide, some exactly non-centred", false, { cellEffectGuide: { mean: Array.from({ length: 12 }, (_, i) => -4 + 0.1 * i), sd: Array.from({ length: 12 }, (_, i) => (i % 3 === 0 ? Infinity : 0.05 + 0.1 * i)) } }],
+  ["cell level non-centred (as written in model.md)", false, { cellEffectGuide: "none" }],
 ];
 
 describe("pooled portfolio density", () => {
@@ -75,27 +75,41 @@ describe("pooled portfolio density", () => {
     const cols = new ParameterColumns(model.constrainedNames);
     const lay = model.layout;
     const k = model.constants;
-    // the small portfolio exercises both ways of sampling the cell level
-    expect(lay.cellCentred.includes(1)).toBe(true);
-    expect(lay.cellCentred.includes(0)).toBe(true);
+    // the small portfolio exercises guided and exactly non-centred cell effects
+    expect(lay.guidePrecision.some((b) => b > 0)).toBe(true);
+    expect(lay.guidePrecision.some((b) => b === 0)).toBe(true);
     k.channels.forEach((ch, c) => {
       for (let g = 0; g < k.cellCount; g++) {
-        const expected =
+        const tau = out[cols.channel("tauCell", ch)]!;
+        const group =
           out[cols.channel("mu", ch)]! +
-          out[cols.channel("tauBrand", ch)]! * q[lay.zBrand + k.cellBrand[g]! * 3 + c]! +
-          out[cols.channel("tauMarket", ch)]! * q[lay.zMarket + k.cellMarket[g]! * 3 + c]! +
-          out[cols.cellChannel("cellDeviation", g, ch)]!;
+          out[cols.indexOf(`brandDeviation[${k.cellBrand[g]},${ch}]`)]! +
+          out[cols.indexOf(`marketDeviation[${k.cellMarket[g]},${ch}]`)]!;
+        const b = lay.guidePrecision[g * 3 + c]!;
+        const v = 1 / (1 / (tau * tau) + b);
+        const expected = v * (group / (tau * tau) + b * lay.guideMean[g * 3 + c]!) + Math.sqrt(v) * q[lay.zCell + g * 3 + c]!;
         expect(Math.log(out[cols.cellChannel("beta", g, ch)]!)).toBeCloseTo(expected, 12);
-        // the cell level is sampled centred where the data are long, else non-centred
-        if (lay.cellCentred[g * 3 + c] === 0) {
-          expect(out[cols.cellChannel("cellDeviation", g, ch)]).toBeCloseTo(out[cols.channel("tauCell", ch)]! * q[lay.zCell + g * 3 + c]!, 12);
-        } else {
-          expect(Math.log(out[cols.cellChannel("beta", g, ch)]!)).toBeCloseTo(k.muPriorMean[c]! + k.muPriorSd[c]! * q[lay.zCell + g * 3 + c]!, 12);
-        }
+        expect(out[cols.cellChannel("cellDeviation", g, ch)]).toBeCloseTo(expected - group, 12);
+        if (b === 0) expect(expected - group).toBeCloseTo(tau * q[lay.zCell + g * 3 + c]!, 12);
         expect(out[cols.cellChannel("cac0", g, ch)]! * out[cols.cellChannel("beta", g, ch)]!).toBeCloseTo(1, 12);
-        const group = out[cols.channel("mu", ch)]! + out[cols.indexOf(`brandDeviation[${k.cellBrand[g]},${ch}]`)]! + out[cols.indexOf(`marketDeviation[${k.cellMarket[g]},${ch}]`)]!;
-        expect(out[cols.cellChannel("logBetaGroup", g, ch)]).toBeCloseTo(group, 12);
+        const fromDeviations = out[cols.channel("mu", ch)]! + out[cols.indexOf(`brandDeviation[${k.cellBrand[g]},${ch}]`)]! + out[cols.indexOf(`marketDeviation[${k.cellMarket[g]},${ch}]`)]!;
+        expect(out[cols.cellChannel("logBetaGroup", g, ch)]).toBeCloseTo(fromDeviations, 12);
+        expect(fromDeviations).toBeCloseTo(group, 12);
       }
+    });
+  });
+
+  it("is exactly non-centred at every level without a guide (as written in model.md)", () => {
+    const model = buildPortfolioModel(smallPortfolio(false), { cellEffectGuide: "none" });
+    const q = randomPoint(model, 12);
+    const out = new Float64Array(model.constrainedNames.length);
+    model.constrain(q, out);
+    const cols = new ParameterColumns(model.constrainedNames);
+    const lay = model.layout;
+    model.constants.channels.forEach((ch, c) => {
+      model.constants.brands.forEach((_, b) => expect(out[cols.indexOf(`brandDeviation[${b},${ch}]`)]).toBeCloseTo(out[cols.channel("tauBrand", ch)]! * q[lay.zBrand + b * 3 + c]!, 12));
+      model.constants.markets.forEach((_, m) => expect(out[cols.indexOf(`marketDeviation[${m},${ch}]`)]).toBeCloseTo(out[cols.channel("tauMarket", ch)]! * q[lay.zMarket + m * 3 + c]!, 12));
+      for (let g = 0; g < 4; g++) expect(out[cols.cellChannel("cellDeviation", g, ch)]).toBeCloseTo(out[cols.channel("tauCell", ch)]! * q[lay.zCell + g * 3 + c]!, 12);
     });
   });
 

@@ -68,18 +68,39 @@ export function referenceLogDensity(model: PortfolioDensity, data: PortfolioData
     }
   });
   if (pooled) {
-    for (const [at, count] of [[lay.zBrand, brands.length * C], [lay.zMarket, markets.length * C]] as const) {
-      if (at < 0) continue;
-      for (let i = 0; i < count; i++) lp += logNormal(q[at + i]!, 0, 1);
+    // zB = brand deviation / τB (and likewise for markets); the sampler's coordinate maps to
+    // it through δ = v·S + √v·u with v = 1/(1/τ² + P), P = Σ over the level's guided cells of
+    // 1/(τG² + ŝ² [+ τM² for brands]): log-Jacobian log √v − log τ
+    const levels = [
+      ["tauBrand", "brandDeviation", brands, (g: number) => brands.indexOf(data.cells[g]!.brand)],
+      ["tauMarket", "marketDeviation", markets, (g: number) => markets.indexOf(data.cells[g]!.market)],
+    ] as const;
+    for (const [tauName, devName, units, unitOf] of levels) {
+      channels.forEach((ch, c) => {
+        if (!model.constrainedNames.includes(`${tauName}[${ch}]`)) return;
+        const tau = value(`${tauName}[${ch}]`);
+        const tauG = value(`tauCell[${ch}]`);
+        const tauM = tauName === "tauBrand" && model.constrainedNames.includes(`tauMarket[${ch}]`) ? value(`tauMarket[${ch}]`) : 0;
+        units.forEach((_, j) => {
+          lp += logNormal(value(`${devName}[${j},${ch}]`) / tau, 0, 1);
+          let P = 0;
+          data.cells.forEach((__, g) => {
+            const prec = lay.guidePrecision[g * C + c]!;
+            if (unitOf(g) === j && prec > 0) P += 1 / (tauG * tauG + 1 / prec + tauM * tauM);
+          });
+          jac += 0.5 * Math.log(1 / (1 / (tau * tau) + P)) - Math.log(tau);
+        });
+      });
     }
-    // zG = cell deviation / τG; where the sampler moves log β itself (centred), the map
-    // u → zG has log-Jacobian log(s0/τG), i.e. −log τG up to a constant
+    // zG = cell deviation / τG; the sampler's guided coordinate u maps to
+    // zG = (m + √v·u − group)/τG, with log-Jacobian log √v − log τG
     data.cells.forEach((_, g) => {
       channels.forEach((ch, c) => {
         const tau = value(`tauCell[${ch}]`);
         const zG = value(`cellDeviation[${g},${ch}]`) / tau;
         lp += logNormal(zG, 0, 1);
-        if (lay.cellCentred[g * C + c] === 1) jac -= Math.log(tau);
+        const v = 1 / (1 / (tau * tau) + lay.guidePrecision[g * C + c]!);
+        jac += 0.5 * Math.log(v) - Math.log(tau);
       });
     });
   }

@@ -2,20 +2,33 @@ import { adstockGeometricUnchecked } from "../adstock";
 import type { PortfolioConstants } from "./portfolio-constants";
 
 /**
- * How strongly each cell's data pin down each channel effect, as the t-statistic of the
- * channel's coefficient in a per-cell least-squares fit of the outcome on the baseline
- * regressors and the (linear, α = 0.5) adstocked spend. Used only to choose between the
- * centred and non-centred sampling of each cell effect (same posterior either way):
- * well-identified effects sample better centred, weak ones non-centred
- * (Papaspiliopoulos, Roberts & Sköld 2007, Statistical Science 22(1)).
- * Inactive channels and rank-deficient fits get 0.
+ * A rough data estimate of each cell effect log β[g,c] and its standard error, from a
+ * per-cell least-squares fit of the outcome on the baseline regressors and each channel's
+ * saturated adstock at the prior medians (α = 0.5, λ = 2): log β̂ and se(β̂)/β̂. Used only
+ * to guide the sampler (see ParameterLayout.guideMean); the posterior does not depend on it.
+ * Channels without spend, fits with t < 1 and rank-deficient fits get sd = Infinity.
  */
-export function mediaSignalStrength(constants: PortfolioConstants): Float64Array {
+export function cellEffectEstimates(constants: PortfolioConstants): { mean: Float64Array; sd: Float64Array } {
+  const tStatistic = cellEffectTStatistics(constants);
+  const mean = new Float64Array(tStatistic.beta.length);
+  const sd = new Float64Array(tStatistic.beta.length).fill(Infinity);
+  for (let i = 0; i < mean.length; i++) {
+    const t = tStatistic.t[i]!;
+    if (t >= 1) {
+      mean[i] = Math.log(tStatistic.beta[i]!);
+      sd[i] = 1 / t;
+    }
+  }
+  return { mean, sd };
+}
+
+function cellEffectTStatistics(constants: PortfolioConstants): { beta: Float64Array; t: Float64Array } {
   const k = constants;
   const C = k.channelCount;
   const J = k.seasonalityOrder;
   const K = k.controlCount;
   const strength = new Float64Array(k.cellCount * C);
+  const estimate = new Float64Array(k.cellCount * C);
   for (let g = 0; g < k.cellCount; g++) {
     const T = k.weeks[g]!;
     const train = k.trainWeeks[g]!;
@@ -32,8 +45,8 @@ export function mediaSignalStrength(constants: PortfolioConstants): Float64Array
     const adstocked = new Float64Array(T);
     for (const c of active) {
       adstockGeometricUnchecked(k.spend, train, 0.5, k.maxLag, adstocked, undefined, k.mediaStart[g * C + c]!, 0);
-      const scale = k.spendMean[g * C + c]!;
-      columns.push(Float64Array.from(adstocked.subarray(0, train), (v) => v / scale));
+      const theta = 2 * k.spendMean[g * C + c]!;
+      columns.push(Float64Array.from(adstocked.subarray(0, train), (a) => -theta * Math.expm1(-a / theta)));
     }
     // normal equations X'X b = X'y, solved by Cholesky; (X'X)^{-1} diagonal for the standard errors
     const xtx = new Float64Array(p * p);
@@ -65,9 +78,10 @@ export function mediaSignalStrength(constants: PortfolioConstants): Float64Array
       unit[i] = 1;
       const variance = choleskySolve(chol, p, unit)[i]! * sigma2;
       strength[g * C + c] = variance > 0 ? coef[i]! / Math.sqrt(variance) : 0;
+      estimate[g * C + c] = coef[i]!;
     });
   }
-  return strength;
+  return { beta: estimate, t: strength };
 }
 
 function choleskyLower(a: Float64Array, n: number): Float64Array | undefined {

@@ -1,4 +1,4 @@
-import { mediaSignalStrength } from "./cell-parametrisation";
+import { cellEffectEstimates } from "./cell-parametrisation";
 import type { PortfolioConstants } from "./portfolio-constants";
 import type { ResolvedPortfolioOptions } from "./portfolio-options";
 
@@ -24,11 +24,16 @@ export interface ParameterLayout {
   readonly zMarket: number;
   readonly zCell: number;
   /**
-   * Per cell × channel: 1 when the cell effect is sampled centred (log β ~ Normal(group, τG),
-   * coordinate u with log β = m0 + s0·u), 0 when non-centred (log β = group + τG·z). Both give
-   * the same posterior; centred suits cell effects the data pin down, non-centred weak ones.
+   * Guide of the cell level, per cell × channel: a data estimate m̂ of log β and its sd ŝ.
+   * The sampler's coordinate u maps to log β = m + √v·u with v = 1/(1/τG² + 1/ŝ²),
+   * m = v·(group/τG² + m̂/ŝ²): the conditional posterior under a Normal approximation of
+   * the data. τG ≪ ŝ gives the non-centred form, τG ≫ ŝ the centred one; ŝ = Infinity is
+   * exactly non-centred. (Partial non-centring: Papaspiliopoulos, Roberts & Sköld 2007,
+   * Statistical Science 22(1).) The Jacobian √v is part of the density, so the posterior
+   * of the named parameters is the same for any guide.
    */
-  readonly cellCentred: Uint8Array;
+  readonly guideMean: Float64Array;
+  readonly guidePrecision: Float64Array;
   /** Start of the per-cell blocks: [β0, β1, γ_1..J, δ_1..J, log σ, controls_1..K]. */
   readonly cells: number;
   readonly cellStride: number;
@@ -65,13 +70,24 @@ export function buildParameterLayout(
   const zBrand = take(B * C, brandOn);
   const zMarket = take(M * C, marketOn);
   const zCell = take(G * C, pooled);
-  const cellCentred = new Uint8Array(G * C);
+  const guideMean = new Float64Array(G * C);
+  const guidePrecision = new Float64Array(G * C);
   if (pooled) {
-    const strength = mediaSignalStrength(constants);
-    for (let i = 0; i < G * C; i++) cellCentred[i] = strength[i]! >= options.centredCellMinSignal ? 1 : 0;
+    const guide = options.cellEffectGuide;
+    if (guide === "least-squares") {
+      const estimate = cellEffectEstimates(constants);
+      guideMean.set(estimate.mean);
+      for (let i = 0; i < G * C; i++) guidePrecision[i] = 1 / (estimate.sd[i]! * estimate.sd[i]!);
+    } else if (guide !== "none") {
+      if (guide.mean.length !== G * C) throw new RangeError(`cellEffectGuide needs ${G * C} values (cells × channels), got ${guide.mean.length}`);
+      for (let i = 0; i < G * C; i++) {
+        guideMean[i] = guide.mean[i]!;
+        guidePrecision[i] = 1 / (guide.sd[i]! * guide.sd[i]!);
+      }
+    }
   }
   const cellStride = 3 + 2 * constants.seasonalityOrder + constants.controlCount;
   const cells = take(G * cellStride);
   const nu = take(1, options.likelihood === "student-t");
-  return { structure, mu, tauBrand, tauMarket, tauCell, alpha, lambda, hillShape, zBrand, zMarket, zCell, cellCentred, cells, cellStride, nu, dimension: next };
+  return { structure, mu, tauBrand, tauMarket, tauCell, alpha, lambda, hillShape, zBrand, zMarket, zCell, guideMean, guidePrecision, cells, cellStride, nu, dimension: next };
 }

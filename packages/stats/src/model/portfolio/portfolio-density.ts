@@ -45,8 +45,20 @@ export class PortfolioDensity implements DensityModel {
   private readonly gradLogShape: Float64Array;
   private readonly mediaMean: Float64Array;
   private readonly logBetaGroup: Float64Array;
-  /** Standardised cell deviation (log β − group)/τG per cell × channel. */
-  private readonly cellZ: Float64Array;
+  /** Per cell × channel: v and m of the guided cell level (see ParameterLayout.guideMean). */
+  private readonly cellV: Float64Array;
+  private readonly cellM: Float64Array;
+  /** Brand and market deviations δ with their guide terms v, S, P and gradient buffers (per level unit × channel). */
+  private readonly deltaBrand: Float64Array;
+  private readonly brandV: Float64Array;
+  private readonly brandS: Float64Array;
+  private readonly brandP: Float64Array;
+  private readonly gradDeltaBrand: Float64Array;
+  private readonly deltaMarket: Float64Array;
+  private readonly marketV: Float64Array;
+  private readonly marketS: Float64Array;
+  private readonly marketP: Float64Array;
+  private readonly gradDeltaMarket: Float64Array;
   // per cell × channel × week media buffers (length C · totalWeeks)
   private readonly adstock: Float64Array;
   private readonly adstockDerivative: Float64Array;
@@ -93,7 +105,20 @@ export class PortfolioDensity implements DensityModel {
     this.gradLogShape = new Float64Array(C);
     this.mediaMean = new Float64Array(G * C);
     this.logBetaGroup = new Float64Array(G * C);
-    this.cellZ = new Float64Array(G * C);
+    this.cellV = new Float64Array(G * C);
+    const B = constants.brands.length;
+    const M = constants.markets.length;
+    this.deltaBrand = new Float64Array(B * C);
+    this.brandV = new Float64Array(B * C);
+    this.brandS = new Float64Array(B * C);
+    this.brandP = new Float64Array(B * C);
+    this.gradDeltaBrand = new Float64Array(B * C);
+    this.deltaMarket = new Float64Array(M * C);
+    this.marketV = new Float64Array(M * C);
+    this.marketS = new Float64Array(M * C);
+    this.marketP = new Float64Array(M * C);
+    this.gradDeltaMarket = new Float64Array(M * C);
+    this.cellM = new Float64Array(G * C);
     this.adstock = new Float64Array(C * N);
     this.adstockDerivative = new Float64Array(C * N);
     this.response = new Float64Array(C * N);
@@ -151,33 +176,81 @@ export class PortfolioDensity implements DensityModel {
     }
     const B = k.brands.length;
     const M = k.markets.length;
-    if (lay.zBrand >= 0) lp += standardNormalBlock(q, lay.zBrand, B * C, grad);
-    if (lay.zMarket >= 0) lp += standardNormalBlock(q, lay.zMarket, M * C, grad);
-    for (let g = 0; g < G; g++) {
-      const b = k.cellBrand[g]!;
-      const m = k.cellMarket[g]!;
-      for (let c = 0; c < C; c++) {
+    const guideMean = lay.guideMean;
+    const guidePrecision = lay.guidePrecision;
+    // Levels are built in order brand → market → cell; each deviation is guided by the
+    // cells' data estimates given the levels before it (see ParameterLayout.guideMean),
+    // so the map is triangular and its log-Jacobian is Σ log(√v/τ).
+    for (let c = 0; c < C; c++) {
+      const mu = this.mu[c]!;
+      const tauG2 = this.tauCell[c]! * this.tauCell[c]!;
+      const tauM2 = lay.zMarket >= 0 ? this.tauMarket[c]! * this.tauMarket[c]! : 0;
+      if (lay.zBrand >= 0) {
+        const aB = 1 / (this.tauBrand[c]! * this.tauBrand[c]!);
+        for (let b = 0; b < B; b++) {
+          let P = 0;
+          let S = 0;
+          for (let g = 0; g < G; g++) {
+            const gc = g * C + c;
+            const prec = guidePrecision[gc]!;
+            if (k.cellBrand[g] !== b || prec === 0) continue;
+            const w = 1 / (tauG2 + 1 / prec + tauM2);
+            P += w;
+            S += w * (guideMean[gc]! - mu);
+          }
+          const i = b * C + c;
+          const v = 1 / (aB + P);
+          const delta = v * S + Math.sqrt(v) * q[lay.zBrand + i]!;
+          this.deltaBrand[i] = delta;
+          this.brandV[i] = v;
+          this.brandS[i] = S;
+          this.brandP[i] = P;
+          lp += -0.5 * aB * delta * delta + 0.5 * Math.log(aB * v);
+        }
+      }
+      if (lay.zMarket >= 0) {
+        const aM = 1 / tauM2;
+        for (let m = 0; m < M; m++) {
+          let P = 0;
+          let S = 0;
+          for (let g = 0; g < G; g++) {
+            const gc = g * C + c;
+            const prec = guidePrecision[gc]!;
+            if (k.cellMarket[g] !== m || prec === 0) continue;
+            const w = 1 / (tauG2 + 1 / prec);
+            const brandPart = lay.zBrand >= 0 ? this.deltaBrand[k.cellBrand[g]! * C + c]! : 0;
+            P += w;
+            S += w * (guideMean[gc]! - mu - brandPart);
+          }
+          const i = m * C + c;
+          const v = 1 / (aM + P);
+          const delta = v * S + Math.sqrt(v) * q[lay.zMarket + i]!;
+          this.deltaMarket[i] = delta;
+          this.marketV[i] = v;
+          this.marketS[i] = S;
+          this.marketP[i] = P;
+          lp += -0.5 * aM * delta * delta + 0.5 * Math.log(aM * v);
+        }
+      }
+      for (let g = 0; g < G; g++) {
         const gc = g * C + c;
-        let group = this.mu[c]!;
-        if (lay.zBrand >= 0) group += this.tauBrand[c]! * q[lay.zBrand + b * C + c]!;
-        if (lay.zMarket >= 0) group += this.tauMarket[c]! * q[lay.zMarket + m * C + c]!;
+        let group = mu;
+        if (lay.zBrand >= 0) group += this.deltaBrand[k.cellBrand[g]! * C + c]!;
+        if (lay.zMarket >= 0) group += this.deltaMarket[k.cellMarket[g]! * C + c]!;
         let logBeta = group;
         if (lay.zCell >= 0) {
+          // log β = m + √v·u, v = 1/(a + b), m = v·(a·group + b·m̂), a = 1/τG², b = guide precision;
+          // log p += log Normal(log β | group, τG) + log √v
           const u = q[lay.zCell + gc]!;
-          const tau = this.tauCell[c]!;
-          if (lay.cellCentred[gc] === 1) {
-            // centred: log β = m0 + s0·u ~ Normal(group, τG)
-            logBeta = k.muPriorMean[c]! + k.muPriorSd[c]! * u;
-            const z = (logBeta - group) / tau;
-            this.cellZ[gc] = z;
-            lp -= 0.5 * z * z + Math.log(tau);
-          } else {
-            // non-centred: log β = group + τG·z, z ~ Normal(0, 1)
-            logBeta = group + tau * u;
-            this.cellZ[gc] = u;
-            lp -= 0.5 * u * u;
-            if (grad) grad[lay.zCell + gc] = -u;
-          }
+          const a = 1 / tauG2;
+          const b = guidePrecision[gc]!;
+          const v = 1 / (a + b);
+          const m = v * (a * group + b * guideMean[gc]!);
+          logBeta = m + Math.sqrt(v) * u;
+          const d = logBeta - group;
+          lp += -0.5 * a * d * d + 0.5 * Math.log(a * v);
+          this.cellV[gc] = v;
+          this.cellM[gc] = m;
         }
         this.logBetaGroup[gc] = group;
         this.beta[gc] = Math.exp(logBeta);
@@ -452,46 +525,104 @@ export class PortfolioDensity implements DensityModel {
 
     if (k.liftTests.length > 0) lp += this.liftTestTerm(true);
 
-    // chain rule back to the unconstrained coordinates
+    // chain rule back to the unconstrained coordinates: cells, then markets, then brands
+    const B = k.brands.length;
+    const M = k.markets.length;
+    const guideMean = lay.guideMean;
+    const guidePrecision = lay.guidePrecision;
+    this.gradDeltaBrand.fill(0);
+    this.gradDeltaMarket.fill(0);
     for (let c = 0; c < C; c++) {
       let gMu = 0;
       let gTauB = 0;
       let gTauM = 0;
       let gTauG = 0;
       let gLogLambda = 0;
+      const tauG2 = this.tauCell[c]! * this.tauCell[c]!;
+      const tauM2 = lay.zMarket >= 0 ? this.tauMarket[c]! * this.tauMarket[c]! : 0;
       for (let g = 0; g < G; g++) {
         const gc = g * C + c;
-        // gb: derivative with respect to the group mean μ + τB·zB + τM·zM of this cell
+        // gb: derivative with respect to the group mean μ + δB + δM of this cell
         let gb = this.gradLogBeta[gc]!;
         if (lay.zCell >= 0) {
           const zi = lay.zCell + gc;
-          const tau = this.tauCell[c]!;
-          const z = this.cellZ[gc]!;
-          if (lay.cellCentred[gc] === 1) {
-            grad[zi] = grad[zi]! + k.muPriorSd[c]! * (gb - z / tau);
-            gTauG += z * z - 1;
-            gb = z / tau;
-          } else {
-            grad[zi] = grad[zi]! + gb * tau;
-            gTauG += gb * z * tau;
-          }
+          const a = 1 / tauG2;
+          const v = this.cellV[gc]!;
+          const sdv = Math.sqrt(v);
+          const u = q[zi]!;
+          const group = this.logBetaGroup[gc]!;
+          const d = Math.log(this.beta[gc]!) - group;
+          const total = gb - a * d; // d/d log β with the group and τG held
+          grad[zi] = grad[zi]! + total * sdv;
+          const dLogBetaDa = v * (group - this.cellM[gc]!) - 0.5 * v * sdv * u;
+          const dA = total * dLogBetaDa - 0.5 * d * d + 0.5 / a - 0.5 * v;
+          gTauG += -2 * a * dA;
+          gb = total * v * a + a * d;
         }
         gMu += gb;
-        if (lay.zBrand >= 0) {
-          const zi = lay.zBrand + k.cellBrand[g]! * C + c;
-          gTauB += gb * q[zi]!;
-          grad[zi] = grad[zi]! + gb * this.tauBrand[c]!;
-        }
-        if (lay.zMarket >= 0) {
-          const zi = lay.zMarket + k.cellMarket[g]! * C + c;
-          gTauM += gb * q[zi]!;
-          grad[zi] = grad[zi]! + gb * this.tauMarket[c]!;
-        }
+        if (lay.zBrand >= 0) this.gradDeltaBrand[k.cellBrand[g]! * C + c] = this.gradDeltaBrand[k.cellBrand[g]! * C + c]! + gb;
+        if (lay.zMarket >= 0) this.gradDeltaMarket[k.cellMarket[g]! * C + c] = this.gradDeltaMarket[k.cellMarket[g]! * C + c]! + gb;
         gLogLambda += this.gradLogTheta[gc]!;
       }
+      if (lay.zMarket >= 0) {
+        const aM = 1 / tauM2;
+        for (let m = 0; m < M; m++) {
+          const i = m * C + c;
+          const v = this.marketV[i]!;
+          const sdv = Math.sqrt(v);
+          const delta = this.deltaMarket[i]!;
+          const u = q[lay.zMarket + i]!;
+          const total = this.gradDeltaMarket[i]! - aM * delta;
+          grad[lay.zMarket + i] = grad[lay.zMarket + i]! + total * sdv;
+          const dS = total * v;
+          const dV = total * (this.marketS[i]! + u / (2 * sdv)) + 0.5 / v;
+          gTauM += -2 * aM * (-v * v * dV - 0.5 * delta * delta + 0.5 / aM);
+          const dP = -v * v * dV;
+          gMu -= dS * this.marketP[i]!;
+          for (let g = 0; g < G; g++) {
+            const gc = g * C + c;
+            const prec = guidePrecision[gc]!;
+            if (k.cellMarket[g] !== m || prec === 0) continue;
+            const w = 1 / (tauG2 + 1 / prec);
+            let r = guideMean[gc]! - this.mu[c]!;
+            if (lay.zBrand >= 0) {
+              const bi = k.cellBrand[g]! * C + c;
+              r -= this.deltaBrand[bi]!;
+              this.gradDeltaBrand[bi] = this.gradDeltaBrand[bi]! - dS * w;
+            }
+            gTauG += (dP + dS * r) * (-2 * tauG2 * w * w);
+          }
+        }
+      }
+      if (lay.zBrand >= 0) {
+        const aB = 1 / (this.tauBrand[c]! * this.tauBrand[c]!);
+        for (let b = 0; b < B; b++) {
+          const i = b * C + c;
+          const v = this.brandV[i]!;
+          const sdv = Math.sqrt(v);
+          const delta = this.deltaBrand[i]!;
+          const u = q[lay.zBrand + i]!;
+          const total = this.gradDeltaBrand[i]! - aB * delta;
+          grad[lay.zBrand + i] = grad[lay.zBrand + i]! + total * sdv;
+          const dS = total * v;
+          const dV = total * (this.brandS[i]! + u / (2 * sdv)) + 0.5 / v;
+          gTauB += -2 * aB * (-v * v * dV - 0.5 * delta * delta + 0.5 / aB);
+          const dP = -v * v * dV;
+          gMu -= dS * this.brandP[i]!;
+          for (let g = 0; g < G; g++) {
+            const gc = g * C + c;
+            const prec = guidePrecision[gc]!;
+            if (k.cellBrand[g] !== b || prec === 0) continue;
+            const w = 1 / (tauG2 + 1 / prec + tauM2);
+            const dw = dP + dS * (guideMean[gc]! - this.mu[c]!);
+            gTauG += dw * (-2 * tauG2 * w * w);
+            if (lay.zMarket >= 0) gTauM += dw * (-2 * tauM2 * w * w);
+          }
+        }
+      }
       grad[lay.mu + c] = grad[lay.mu + c]! + gMu * k.muPriorSd[c]!;
-      if (lay.tauBrand >= 0) grad[lay.tauBrand + c] = grad[lay.tauBrand + c]! + gTauB * this.tauBrand[c]!;
-      if (lay.tauMarket >= 0) grad[lay.tauMarket + c] = grad[lay.tauMarket + c]! + gTauM * this.tauMarket[c]!;
+      if (lay.tauBrand >= 0) grad[lay.tauBrand + c] = grad[lay.tauBrand + c]! + gTauB;
+      if (lay.tauMarket >= 0) grad[lay.tauMarket + c] = grad[lay.tauMarket + c]! + gTauM;
       if (lay.tauCell >= 0) grad[lay.tauCell + c] = grad[lay.tauCell + c]! + gTauG;
       const a = this.alpha[c]!;
       grad[lay.alpha + c] = grad[lay.alpha + c]! + this.gradAlpha[c]! * a * (1 - a);
@@ -621,6 +752,8 @@ export class PortfolioDensity implements DensityModel {
     readonly theta: Float64Array;
     readonly mediaMean: Float64Array;
     readonly logBetaGroup: Float64Array;
+    readonly deltaBrand: Float64Array;
+    readonly deltaMarket: Float64Array;
   } {
     this.readChannelBlocks(q, undefined);
     this.computeMedia(false);
@@ -636,6 +769,8 @@ export class PortfolioDensity implements DensityModel {
       theta: this.theta,
       mediaMean: this.mediaMean,
       logBetaGroup: this.logBetaGroup,
+      deltaBrand: this.deltaBrand,
+      deltaMarket: this.deltaMarket,
     };
   }
 
@@ -656,16 +791,6 @@ function dot(a: Float64Array, aAt: number, b: Float64Array, bAt: number, n: numb
   let s = 0;
   for (let t = 0; t < n; t++) s += a[aAt + t]! * b[bAt + t]!;
   return s;
-}
-
-function standardNormalBlock(q: Float64Array, at: number, count: number, grad: Float64Array | undefined): number {
-  let lp = 0;
-  for (let i = at; i < at + count; i++) {
-    const z = q[i]!;
-    lp -= 0.5 * z * z;
-    if (grad) grad[i] = -z;
-  }
-  return lp;
 }
 
 /** Hill form r = θ·u/(1+u), u = (a/θ)^k: writes [r, dr/da, dr/dθ, dr/dk]. */
@@ -716,8 +841,8 @@ function writeConstrained(model: PortfolioDensity, q: Float64Array, out: Float64
   for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = fx.theta[g * C + c]!;
   if (pooled) {
     for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = fx.logBetaGroup[g * C + c]!;
-    if (lay.zBrand >= 0) for (let b = 0; b < B; b++) for (let c = 0; c < C; c++) out[o++] = fx.tauBrand[c]! * q[lay.zBrand + b * C + c]!;
-    if (lay.zMarket >= 0) for (let m = 0; m < M; m++) for (let c = 0; c < C; c++) out[o++] = fx.tauMarket[c]! * q[lay.zMarket + m * C + c]!;
+    if (lay.zBrand >= 0) for (let i = 0; i < B * C; i++) out[o++] = fx.deltaBrand[i]!;
+    if (lay.zMarket >= 0) for (let i = 0; i < M * C; i++) out[o++] = fx.deltaMarket[i]!;
     for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) out[o++] = Math.log(fx.beta[g * C + c]!) - fx.logBetaGroup[g * C + c]!;
   }
   for (let g = 0; g < G; g++) {

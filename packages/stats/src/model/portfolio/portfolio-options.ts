@@ -29,6 +29,12 @@ export type PoolingLevels = "crossed" | "brand" | "market" | "cell-only";
 
 export type LikelihoodKind = "normal" | "student-t";
 
+/** Guide of the cell level's sampling: per cell × channel (row-major) a mean and sd of log β. */
+export interface CellEffectGuide {
+  readonly mean: readonly number[];
+  readonly sd: readonly number[];
+}
+
 /** Plain-data options of the portfolio model; every field is optional and defaults to the reference model. */
 export interface PortfolioModelOptions {
   /** Maximum adstock lag L (default 8). */
@@ -44,11 +50,13 @@ export interface PortfolioModelOptions {
   readonly holdoutWeeks?: number;
   readonly liftTests?: readonly LiftTest[];
   /**
-   * Sampler geometry only (the posterior is the same either way): a cell × channel effect
-   * whose least-squares t-statistic in its cell reaches this value is sampled centred,
-   * others non-centred (default 3; Infinity = all non-centred, as written in model.md).
+   * Sampler geometry only (the posterior is the same either way): how the cell level
+   * log β[g,c] ~ Normal(group, τG) is moved. "least-squares" (default) guides each cell
+   * effect by a per-cell least-squares estimate of log β and its standard error;
+   * "none" samples it non-centred, exactly as written in model.md; or give the guide
+   * (mean and sd of log β per cell × channel, row-major; sd Infinity = non-centred).
    */
-  readonly centredCellMinSignal?: number;
+  readonly cellEffectGuide?: "least-squares" | "none" | CellEffectGuide;
 }
 
 export interface ResolvedPortfolioOptions {
@@ -61,7 +69,7 @@ export interface ResolvedPortfolioOptions {
   readonly pooling: PoolingLevels;
   readonly holdoutWeeks: number;
   readonly liftTests: readonly LiftTest[];
-  readonly centredCellMinSignal: number;
+  readonly cellEffectGuide: "least-squares" | "none" | CellEffectGuide;
 }
 
 export const DEFAULT_CAC_RANGE: readonly [number, number] = [5, 2000];
@@ -96,9 +104,15 @@ export function resolvePortfolioOptions(channels: readonly string[], options: Po
     }
     return [lo, hi] as const;
   });
-  const centredCellMinSignal = options.centredCellMinSignal ?? 3;
-  if (Number.isNaN(centredCellMinSignal)) throw new RangeError("centredCellMinSignal must be a number");
-  return { maxLag, saturation, likelihood, seasonalityOrder, cacRange, pooling, holdoutWeeks, liftTests: options.liftTests ?? [], centredCellMinSignal };
+  const cellEffectGuide = options.cellEffectGuide ?? "least-squares";
+  if (typeof cellEffectGuide === "object") {
+    const { mean, sd } = cellEffectGuide;
+    if (!Array.isArray(mean) || !Array.isArray(sd) || mean.length !== sd.length) throw new RangeError("cellEffectGuide needs mean and sd arrays of equal length");
+    if (mean.some((m) => !Number.isFinite(m)) || sd.some((v) => !(v > 0))) throw new RangeError("cellEffectGuide: means must be finite and sds positive (Infinity allowed)");
+  } else if (cellEffectGuide !== "least-squares" && cellEffectGuide !== "none") {
+    throw new RangeError(`cellEffectGuide must be "least-squares", "none" or { mean, sd }, got "${String(cellEffectGuide)}"`);
+  }
+  return { maxLag, saturation, likelihood, seasonalityOrder, cacRange, pooling, holdoutWeeks, liftTests: options.liftTests ?? [], cellEffectGuide };
 }
 
 /** Mean and sd of the prior of μ_c = log β from the CAC range [lo, hi] read as a 90 % interval. */
