@@ -1,8 +1,7 @@
 // Reads of dataset versions: the list, one version with its cells, a cell's weekly
 // series, and the whole version as the model's PortfolioData.
 import { and, asc, count, desc, eq, max, min, sql } from "drizzle-orm";
-import type { ColumnMapping, DatasetCell, DatasetVersion, DatasetVersionDetail, ValidationReport } from "@tributary/contracts";
-import { isoDateToDayNumber } from "@tributary/contracts";
+import { isoDateToDayNumber, type ColumnMapping, type DatasetCell, type DatasetVersion, type DatasetVersionDetail, type ValidationReport } from "@tributary/contracts";
 import type { CellSeries, PortfolioData } from "@tributary/stats";
 import { inScope } from "../access/market-scope";
 import type { MarketScope } from "../access/route-table";

@@ -115,7 +115,7 @@ export function parameterTrace(
   }
   const ranks = ranksOf(all);
   const total = all.length;
-  const rankCounts = columns.map((c, k) => ({ chain: chains[k]!.chain, counts: new Array<number>(bins).fill(0) }));
+  const rankCounts = chains.map((chain) => ({ chain: chain.chain, counts: new Array<number>(bins).fill(0) }));
   at = 0;
   columns.forEach((c, k) => {
     for (let i = 0; i < c.length; i++) {

@@ -3,11 +3,9 @@
 // cell's data, standard error > 0). A batch is stored whole or not at all.
 import { and, asc, eq } from "drizzle-orm";
 import { liftTestsCreateInput, type IntakeIssue, type LiftTestRecord, type LiftTestsCreated, type ValidationReport } from "@tributary/contracts";
-import { parseLiftTestsCsv, reportOf, validateLiftTest, type LiftTest } from "@tributary/intake";
-import { nameKey } from "@tributary/intake";
+import { nameKey, parseLiftTestsCsv, reportOf, validateLiftTest, type LiftTest } from "@tributary/intake";
 import { inScope } from "../access/market-scope";
-import type { MarketScope } from "../access/route-table";
-import { defineRoute, markets, signedIn } from "../access/route-table";
+import { defineRoute, markets, signedIn, type MarketScope } from "../access/route-table";
 import type { Queryable } from "../db/client";
 import { datasetVersionExists, loadPortfolioData } from "../datasets/dataset-queries";
 import { auditLog, brands, cells, channels, liftTests, markets as marketTable, users } from "../db/schema";

@@ -1,6 +1,7 @@
 // Data intake: upload a tidy CSV, map and validate its columns, save it as a dataset
 // version. Analysts and admins only; an upload is visible only to its uploader.
 import {
+  dayNumberToIsoDate,
   saveUploadInput,
   validateUploadInput,
   type CellSeriesPreview,
@@ -10,7 +11,6 @@ import {
   type ValidationReport,
 } from "@tributary/contracts";
 import { analyseTidyRows, guessColumnMapping, parseCsvText, type TidyAnalysis } from "@tributary/intake";
-import { dayNumberToIsoDate } from "@tributary/contracts";
 import { allowedMarkets } from "../access/market-scope";
 import { defineRoute, markets, signedIn } from "../access/route-table";
 import type { Queryable } from "../db/client";
@@ -31,6 +31,11 @@ function uploadOf(req: Request, store: UploadStore, userId: string): StoredUploa
   const upload = store.get(String(req.params.uploadId ?? ""), userId);
   if (!upload) throw new NotFound("This upload is not here any more (uploads are kept for a while only); upload the file again");
   return upload;
+}
+
+function guessOf(header: readonly string[], rows: readonly (readonly string[])[]): UploadCreated["guess"] {
+  const guess = guessColumnMapping(header, rows);
+  return { ...guess, channels: [...guess.channels], controls: [...guess.controls], ignored: [...guess.ignored], notes: [...guess.notes] };
 }
 
 function analyse(upload: StoredUpload, mapping: unknown): TidyAnalysis {
@@ -99,7 +104,7 @@ export const uploadRoutes = [
         header: [...csv.header],
         rowCount: csv.rows.length,
         previewRows: csv.rows.slice(0, PREVIEW_ROWS).map((row) => [...row]),
-        guess: (({ notes, ...mapping }) => ({ ...mapping, notes: [...notes] }))(guessColumnMapping(csv.header, csv.rows)),
+        guess: guessOf(csv.header, csv.rows),
       };
     },
   }),
