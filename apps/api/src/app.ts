@@ -34,10 +34,16 @@ export interface CreateAppOptions {
 
 const appDepsKey = Symbol.for("tributary.appDeps");
 
+/** The services an app was built with (tests and the server reach the run service through it). */
+export function appDeps(app: Express): AppDeps {
+  const deps = (app.locals as Record<symbol, AppDeps | undefined>)[appDepsKey];
+  if (!deps) throw new Error("this Express app was not built by createApp");
+  return deps;
+}
+
 /** Ends the app's background work (fit jobs, worker threads); call before closing its database. */
 export async function shutdownApp(app: Express): Promise<void> {
-  const deps = (app.locals as Record<symbol, AppDeps | undefined>)[appDepsKey];
-  await deps?.runs.close();
+  await appDeps(app).runs.close();
 }
 
 /** The local job runner for fits, sized by the config. */
