@@ -3,7 +3,7 @@
 // up to the cores, and reports the CPU the whole process used. Prints JSON.
 // Run: pnpm tsx bench/api-fit-jobs.ts [--out bench/results/api-fit-jobs.json]
 import { writeFileSync } from "node:fs";
-import { availableParallelism } from "node:os";
+import { availableParallelism, loadavg } from "node:os";
 import { readTidyCsv } from "../packages/intake/src/index";
 import { localFitRunner } from "../apps/api/src/app";
 import { defaultConfig } from "../apps/api/src/config";
@@ -41,12 +41,15 @@ async function timeFit(chainThreads: number) {
   };
 }
 
+// The machine may be shared: its load before and after is reported with the timings.
+const loadBefore = loadavg()[0];
 const results = [];
 for (let threads = 1; threads <= cores; threads++) results.push(await timeFit(threads));
 const report = {
   what: "one fit job through the API's local job runner: example dataset (3 cells, 3 channels, 248 rows), 4 chains × (300 warm-up + 300 draws), pooled + no-pooling comparison, report data",
   cores,
   node: process.version,
+  loadAverage: { before: Number(loadBefore!.toFixed(2)), after: Number(loadavg()[0]!.toFixed(2)) },
   results,
 };
 const json = JSON.stringify(report, null, 2);
