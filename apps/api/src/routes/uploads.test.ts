@@ -145,6 +145,23 @@ describe("a good file", () => {
   });
 });
 
+describe("control columns", () => {
+  it("are guessed from their prefix, saved with every row and given back in a cell's series", async () => {
+    const agent = await analyst();
+    const text = exampleLines((lines) => lines.map((line, i) => `${line},${i === 0 ? "control_price_index" : (1 + (i % 7) / 100).toFixed(2)}`));
+    const created = uploadCreatedSchema.parse((await upload(agent, text).expect(201)).body);
+    expect(created.guess.controls).toEqual(["control_price_index"]);
+    const { notes: _notes, ...guess } = created.guess;
+    const saved = datasetVersionDetailSchema.parse((await agent.post(`/api/uploads/${created.uploadId}/save`).send({ mapping: guess }).expect(201)).body);
+    expect(saved.controls).toEqual(["control_price_index"]);
+    const series = datasetSeriesSchema.parse((await agent.get(`/api/datasets/${saved.id}/series?cell=${saved.cells[0]!.cellId}`).expect(200)).body);
+    expect(series.controls).toEqual(["control_price_index"]);
+    const firstLine = exampleCsv().split("\n").findIndex((line) => line.includes(",Larkspine,Ambrel,"));
+    expect(saved.cells[0]).toMatchObject({ brand: "Larkspine", market: "Ambrel" });
+    expect(series.controlValues[0]!.slice(0, 3)).toEqual([0, 1, 2].map((k) => Number((1 + ((firstLine + k) % 7) / 100).toFixed(2))));
+  });
+});
+
 describe("bad files", () => {
   /** Uploads, validates and tries to save; returns the three answers and checks nothing was written but the upload's audit entry. */
   async function tryFile(text: string) {
