@@ -47,6 +47,7 @@ const configurations: [string, boolean, PortfolioModelOptions][] = [
   ["cell-only pooling, J = 0", true, { pooling: "cell-only", seasonalityOrder: 0 }],
   ["explicit cell guide, some exactly non-centred", false, { cellEffectGuide: { mean: Array.from({ length: 12 }, (_, i) => -4 + 0.1 * i), sd: Array.from({ length: 12 }, (_, i) => (i % 3 === 0 ? Infinity : 0.05 + 0.1 * i)) } }],
   ["cell level non-centred (as written in model.md)", false, { cellEffectGuide: "none" }],
+  ["fixed baseline prior centre and scale", true, { baselinePriorScale: { centre: [400, 150, 250, 90], scale: [60, 30, 40, 20] }, likelihood: "student-t" }],
 ];
 
 describe("pooled portfolio density", () => {
@@ -173,7 +174,7 @@ describe("pooled portfolio density", () => {
 describe("unpooled cell models", () => {
   it("have exact gradients and the literal density", () => {
     const data = smallPortfolio(true);
-    const options: PortfolioModelOptions = { likelihood: "student-t", liftTests: smallLiftTests, holdoutWeeks: 2 };
+    const options: PortfolioModelOptions = { likelihood: "student-t", liftTests: smallLiftTests, holdoutWeeks: 2, baselinePriorScale: { centre: [400, 150, 250, 90], scale: [60, 30, 40, 20] } };
     for (const g of [0, 1, 2]) {
       const model: PortfolioDensity = buildUnpooledCellModel(data, g, options);
       expectGradientMatchesFiniteDifferences(model, randomPoint(model, 10 + g));

@@ -127,12 +127,14 @@ export function referenceLogDensity(model: PortfolioDensity, data: PortfolioData
     const y = cell.outcome.subarray(0, train);
     const ybar = y.reduce((a, b) => a + b, 0) / train;
     const sd = Math.sqrt(y.reduce((a, b) => a + (b - ybar) ** 2, 0) / (train - 1));
-    const s = sd > 0 ? sd : 1;
+    const fixed = opts.baselinePriorScale;
+    const s = fixed ? fixed.scale[g]! : sd > 0 ? sd : 1;
+    const centre = fixed ? fixed.centre[g]! : ybar;
     const G = g + off;
     const beta0 = value(`beta0[${G}]`);
     const beta1 = value(`beta1[${G}]`);
     const sigma = value(`sigma[${G}]`);
-    lp += logNormal(beta0, ybar, s) + logNormal(beta1, 0, s) + logHalfNormal(sigma, s);
+    lp += logNormal(beta0, centre, s) + logNormal(beta1, 0, s) + logHalfNormal(sigma, s);
     jac += Math.log(sigma);
     const w0 = absoluteWeekOf(cell.firstWeek);
     const mean = new Float64Array(train);

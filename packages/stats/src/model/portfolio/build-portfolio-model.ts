@@ -17,7 +17,9 @@ export function buildPortfolioModel(data: PortfolioData, options: PortfolioModel
 function singleCellData(data: PortfolioData, g: number, options: PortfolioModelOptions): { data: PortfolioData; options: PortfolioModelOptions } {
   const cell = data.cells[g]!;
   const liftTests = (options.liftTests ?? []).filter((t) => t.brand === cell.brand && t.market === cell.market);
-  return { data: { channels: data.channels, controls: data.controls, cells: [cell] }, options: { ...options, liftTests } };
+  const fixed = options.baselinePriorScale;
+  const baselinePriorScale = fixed === undefined ? undefined : { centre: fixed.centre.slice(g, g + 1), scale: fixed.scale.slice(g, g + 1) };
+  return { data: { channels: data.channels, controls: data.controls, cells: [cell] }, options: { ...options, liftTests, baselinePriorScale, cellEffectGuide: "none" } };
 }
 
 /**

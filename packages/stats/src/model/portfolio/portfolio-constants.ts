@@ -45,7 +45,7 @@ export interface PortfolioConstants {
   /** Per cell × channel: spend series, at mediaStart. */
   readonly spend: Float64Array;
   readonly mediaStart: Int32Array;
-  /** ȳ_g and s_g over the training weeks. */
+  /** ȳ_g and s_g over the training weeks (or as fixed by the baselinePriorScale option). */
   readonly outcomeMean: Float64Array;
   readonly outcomeScale: Float64Array;
   /** x̄[g,c]: mean spend over training weeks with spend (1 if none). */
@@ -170,6 +170,12 @@ export function buildPortfolioConstants(data: PortfolioData, options: ResolvedPo
     const ySd = Math.sqrt(ss / (train - 1));
     outcomeMean[g] = yMean;
     outcomeScale[g] = ySd > 0 ? ySd : 1;
+    const fixed = options.baselinePriorScale;
+    if (fixed !== undefined) {
+      if (fixed.centre.length !== G) fail(`baselinePriorScale has ${fixed.centre.length} values for ${G} cells`);
+      outcomeMean[g] = fixed.centre[g]!;
+      outcomeScale[g] = fixed.scale[g]!;
+    }
 
     for (let c = 0; c < C; c++) {
       const ms = C * start + c * T;

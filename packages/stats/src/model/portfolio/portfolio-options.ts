@@ -57,6 +57,13 @@ export interface PortfolioModelOptions {
    * (mean and sd of log β per cell × channel, row-major; sd Infinity = non-centred).
    */
   readonly cellEffectGuide?: "least-squares" | "none" | CellEffectGuide;
+  /**
+   * Per cell, the centre ȳ_g and scale s_g of the baseline priors (β0 ~ Normal(ȳ, s),
+   * β1 ~ Normal(0, s), γ, δ ~ Normal(0, s/2), σ ~ HalfNormal(s), controls ~ Normal(0, s)).
+   * Default, as in model.md: the mean and standard deviation of the cell's fitted outcomes.
+   * Fixed values make the prior independent of the outcomes (simulation-based calibration).
+   */
+  readonly baselinePriorScale?: { readonly centre: readonly number[]; readonly scale: readonly number[] };
 }
 
 export interface ResolvedPortfolioOptions {
@@ -70,6 +77,7 @@ export interface ResolvedPortfolioOptions {
   readonly holdoutWeeks: number;
   readonly liftTests: readonly LiftTest[];
   readonly cellEffectGuide: "least-squares" | "none" | CellEffectGuide;
+  readonly baselinePriorScale: { readonly centre: readonly number[]; readonly scale: readonly number[] } | undefined;
 }
 
 export const DEFAULT_CAC_RANGE: readonly [number, number] = [5, 2000];
@@ -112,7 +120,13 @@ export function resolvePortfolioOptions(channels: readonly string[], options: Po
   } else if (cellEffectGuide !== "least-squares" && cellEffectGuide !== "none") {
     throw new RangeError(`cellEffectGuide must be "least-squares", "none" or { mean, sd }, got "${String(cellEffectGuide)}"`);
   }
-  return { maxLag, saturation, likelihood, seasonalityOrder, cacRange, pooling, holdoutWeeks, liftTests: options.liftTests ?? [], cellEffectGuide };
+  const baselinePriorScale = options.baselinePriorScale;
+  if (baselinePriorScale !== undefined) {
+    const { centre, scale } = baselinePriorScale;
+    if (!Array.isArray(centre) || !Array.isArray(scale) || centre.length !== scale.length) throw new RangeError("baselinePriorScale needs centre and scale arrays, one value per cell");
+    if (centre.some((v) => !Number.isFinite(v)) || scale.some((v) => !(Number.isFinite(v) && v > 0))) throw new RangeError("baselinePriorScale: centres must be finite and scales positive");
+  }
+  return { maxLag, saturation, likelihood, seasonalityOrder, cacRange, pooling, holdoutWeeks, liftTests: options.liftTests ?? [], cellEffectGuide, baselinePriorScale };
 }
 
 /** Mean and sd of the prior of μ_c = log β from the CAC range [lo, hi] read as a 90 % interval. */
