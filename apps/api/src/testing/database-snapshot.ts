@@ -3,7 +3,7 @@
 // state (migrations, demo seed, the stats code that simulates the demo data) and cached
 // in the system's temp directory, so every test file and worker reuses it.
 import { createHash } from "node:crypto";
-import { existsSync, mkdirSync, readdirSync, readFileSync, renameSync, statSync, writeFileSync } from "node:fs";
+import { existsSync, mkdirSync, readdirSync, readFileSync, renameSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { repoRoot } from "../config";
@@ -63,6 +63,10 @@ async function loadOrBuild(kind: SnapshotKind): Promise<Blob> {
   const partial = `${file}.${process.pid}.${Math.random().toString(36).slice(2)}.partial`;
   writeFileSync(partial, Buffer.from(await blob.arrayBuffer()));
   renameSync(partial, file);
+  // Snapshots of older sources are never read again.
+  for (const name of readdirSync(dir)) {
+    if (name.startsWith(`${kind}-`) && name.endsWith(".tar.gz") && join(dir, name) !== file) rmSync(join(dir, name), { force: true });
+  }
   return blob;
 }
 
