@@ -12,8 +12,18 @@ import { seedDemo } from "../demo/seed-demo";
 
 export type SnapshotKind = "migrated" | "demo";
 
-/** Everything the snapshot's content depends on. */
-const sourceRoots = ["apps/api/drizzle", "apps/api/src/demo", "apps/api/src/auth/password.ts", "packages/stats/src"];
+/** Everything the snapshot's content depends on (the demo data come from the stats package's simulation). */
+const sourceRoots = [
+  "apps/api/drizzle",
+  "apps/api/src/demo",
+  "apps/api/src/auth/password.ts",
+  "packages/stats/src/simulate",
+  "packages/stats/src/rng",
+  "packages/stats/src/model/absolute-week.ts",
+  "packages/stats/src/model/adstock.ts",
+  "packages/stats/src/model/saturation.ts",
+  "packages/stats/src/model/baseline.ts",
+];
 
 function filesUnder(path: string): string[] {
   if (!existsSync(path)) return [];
