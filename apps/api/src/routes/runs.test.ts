@@ -13,7 +13,7 @@ import {
   type RunEvent,
 } from "@tributary/contracts";
 import { createRandomSource, posteriorPredictiveBands } from "@tributary/stats";
-import { auditLog, markets, runDraws, runResults } from "../db/schema";
+import { auditLog, brands, markets, runDraws, runResults } from "../db/schema";
 import { demoUsers } from "../demo/users";
 import { loadRunDrawSet } from "../runs/run-results";
 import { quickFit, saveTinyDataset, slowFit } from "../testing/fit-fixtures";
@@ -146,6 +146,16 @@ describe("a small fit", () => {
     const report = runReportSchema.parse((await analyst.get(`/api/runs/${run.id}/report`).expect(200)).body);
     const again = posteriorPredictiveBands(set, createRandomSource(quickFit.seed ^ 0x5bd1e995));
     expect(Array.from(again[1]!.q50)).toEqual(report.predictiveCheck[1]!.q50);
+
+    // Renaming a brand changes the order cells are read in; the draw set still follows the fit's order.
+    await t.db.update(brands).set({ name: "Zeta Kestrova" }).where(eq(brands.code, "kestrova"));
+    try {
+      const renamed = await loadRunDrawSet(t.db, run.id);
+      expect(renamed.cells.map((c) => c.market)).toEqual(set.cells.map((c) => c.market));
+      expect(Array.from(renamed.cells[0]!.outcome)).toEqual(Array.from(set.cells[0]!.outcome));
+    } finally {
+      await t.db.update(brands).set({ name: "Kestrova" }).where(eq(brands.code, "kestrova"));
+    }
     const stored = await t.db.select().from(runResults).where(eq(runResults.runId, run.id));
     expect(stored.map((r) => r.kind).sort()).toEqual(["fit", "report"]);
     // The draws live in run_draws only, not in the JSON summaries.

@@ -135,6 +135,14 @@ export async function loadRunDrawSet(db: Queryable, runId: string): Promise<Draw
   const record = await modelSettingsRecord(db, run.modelSettingsId);
   const input = await loadFitInput(db, run.datasetVersionId);
   const settings: ModelSettings = record.settings;
+  // The draws name cells by their position in the fit; put the cells back in that order (names may have changed since).
+  const { cellIds } = await storedResult<StoredFitResult>(db, runId, resultKinds.fit);
+  const position = new Map(input.cells.map((cell, g) => [cell.cellId, g] as const));
+  const cellsInFitOrder = cellIds.map((id) => {
+    const g = position.get(id);
+    if (g === undefined) throw new Error(`run ${runId}: cell ${id} is not in its dataset version`);
+    return input.data.cells[g]!;
+  });
   // Lift tests do not enter the draw set; today's list may differ from the run's, so none is passed.
-  return runDrawSet(input.data, fitOptionsOf(settings, run.seed, []), await loadRunDraws(db, runId));
+  return runDrawSet({ ...input.data, cells: cellsInFitOrder }, fitOptionsOf(settings, run.seed, []), await loadRunDraws(db, runId));
 }
