@@ -82,6 +82,12 @@ function mean(values: Float64Array): number {
   return s / values.length;
 }
 
+function sdOf(values: Float64Array, m: number): number {
+  let ss = 0;
+  for (const v of values) ss += (v - m) * (v - m);
+  return Math.sqrt(ss / Math.max(1, values.length - 1));
+}
+
 function sortedQuantile(values: Float64Array, p: number): number {
   const s = Float64Array.from(values).sort();
   const h = (s.length - 1) * p;
@@ -92,7 +98,9 @@ function sortedQuantile(values: Float64Array, p: number): number {
 /**
  * Shrinkage per cell × channel, pooling factors per level and channel, and candidate
  * outliers: a cell whose unpooled 90 % interval of log β excludes the pooled group
- * estimate, or whose shrinkage is large although its data are long. The analyst decides.
+ * estimate, or whose shrinkage is large although its data are long (and its own estimate
+ * is at least one posterior sd away from the group, so the ratio is not noise). The
+ * analyst decides.
  */
 export function portfolioShrinkage(inputs: ShrinkageInputs, rule: OutlierRule = defaultRule): ShrinkageReport {
   const pooled = columnReader(inputs.pooled, "pooled draws");
@@ -122,7 +130,7 @@ export function portfolioShrinkage(inputs: ShrinkageInputs, rule: OutlierRule = 
           channel,
           reason: `On its own data, ${cell.brand} × ${cell.market} has a low-spend CAC for ${channel} of ${cac(q95)}–${cac(q05)} (90 % interval), which excludes the ${cell.brand}/${cell.market} group estimate of ${cac(mG)}.`,
         });
-      } else if (shrink >= rule.largeShrinkage && weeksWithSpend >= rule.longDataWeeks) {
+      } else if (shrink >= rule.largeShrinkage && weeksWithSpend >= rule.longDataWeeks && Math.abs(mU - mG) >= sdOf(eta, mU)) {
         outliers.push({
           cell: g,
           brand: cell.brand,
