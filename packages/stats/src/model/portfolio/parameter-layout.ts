@@ -6,8 +6,14 @@ import type { ResolvedPortfolioOptions } from "./portfolio-options";
  * Positions in the unconstrained vector q. Every coordinate is scaled so that its prior
  * is a standard normal (or close to it), which gives the sampler similar scales at the start:
  *   μ_c = m0_c + s0_c·q,  log λ_c = log 2 + 0.75·q,  log k_c = 0.5·q (Hill shape),
- *   τ = exp(q),  α = logistic(q),  z = q,
+ *   τ = exp(q),  α = logistic(q),
  *   β0 = ȳ + s·q,  β1 = s·q,  γ, δ = (s/2)·q,  control coefficient = s·q,  σ = s·exp(q),  ν = exp(q).
+ * The brand, market and cell deviations are built in that order, each as
+ *   δ = v·S + √v·u,  v = 1/(1/τ² + P),
+ * where P and S collect the guide (a least-squares estimate of each cell's log β and its
+ * standard error) given the levels built before; without a guide (P = 0) this is exactly
+ * the non-centred δ = τ·z of model.md. The map is triangular, its log-Jacobian Σ log(√v/τ)
+ * is in the density, so the posterior of the named parameters does not depend on the guide.
  * A position of −1 means the block is absent.
  */
 export interface ParameterLayout {
