@@ -240,8 +240,13 @@ if (stanMissing === null) {
     const combinedMcse = Math.hypot(ours.mcseMedian, theirs.mcseMedian);
     return { name: ours.name, tributary: ours.median, stan: theirs.median, combinedMcse, withinTwoMcse: Math.abs(ours.median - theirs.median) <= 2 * combinedMcse };
   });
+  const stanGradients = s["gradientEvaluations"] as number;
+  const stanChainSeconds = (s["chainSeconds"] as number[]).reduce((a, b) => a + b, 0);
   comparison = {
     essBulkPerSecondRatio: tributary.essBulkPerSecond / (s.minEssBulk / s.wallSeconds),
+    // free of other load on the machine: effective draws per gradient, and per second of chain time
+    essBulkPerGradientRatio: tributary.minEssBulk / tributary.gradientEvaluations / (s.minEssBulk / stanGradients),
+    essBulkPerChainSecondRatio: tributary.minEssBulk / tributary.chainSeconds.reduce((a, b) => a + b, 0) / (s.minEssBulk / stanChainSeconds),
     cac0: cacComparison,
     cac0WithinTwoMcse: cacComparison.filter((c) => c.withinTwoMcse).length,
     cac0Count: cacComparison.length,
