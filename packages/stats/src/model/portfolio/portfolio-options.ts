@@ -35,7 +35,20 @@ export interface CellEffectGuide {
   readonly sd: readonly number[];
 }
 
-/** Plain-data options of the portfolio model; every field is optional and defaults to the reference model. */
+/**
+ * Plain-data options of the portfolio model; every field is optional and defaults to the
+ * reference model of model.md. Extensions and how they enter the density:
+ * - Control columns (data.controls): each is centred and divided by its standard deviation
+ *   over the cell's fitted weeks (1 if constant), and enters the mean as κ[g,k]·x̃ with
+ *   κ[g,k] ~ Normal(0, s_g): one coefficient per cell and control, on the outcome's own scale
+ *   per standard deviation of the control, like the baseline coefficients.
+ * - Holdout: the last k weeks of every cell are left out of the likelihood; every data
+ *   constant and centring (ȳ, s, x̄, trend centre, seasonal and media means) uses the fitted
+ *   weeks only, so the fit is exactly the reference model on the shortened cells; spend in
+ *   the holdout weeks still feeds their forecast (and lift tests placed there).
+ * - Student-t likelihood: y ~ Student-t(ν, mean, σ_g) with one ν ~ Gamma(2, 0.1) for the portfolio.
+ * - Lift tests: see LiftTest.
+ */
 export interface PortfolioModelOptions {
   /** Maximum adstock lag L (default 8). */
   readonly maxLag?: number;
