@@ -7,3 +7,4 @@ export * from "./intake";
 export * from "./model-settings";
 export * from "./datasets";
 export * from "./runs";
+export * from "./dashboards";
