@@ -94,6 +94,12 @@ export { posteriorPredictiveBands } from "./decisions/posterior-predictive";
 export type { PredictiveBands } from "./decisions/posterior-predictive";
 export { predictCell } from "./decisions/predictive";
 export type { CellPrediction } from "./decisions/predictive";
+export { averageCacCombined, averageCacCombinedRecent, recentWeeklySpend } from "./decisions/combined-cac";
+export { carryOverWeights } from "./decisions/carry-over";
+export { weeklyContribution, columnBands } from "./decisions/weekly-contribution";
+export type { WeeklyContribution, WeeklyBands } from "./decisions/weekly-contribution";
+export { logHistogram, thinDraws } from "./decisions/draw-histogram";
+export type { DrawHistogram } from "./decisions/draw-histogram";
 
 // Shrinkage and pooling.
 export { poolingFactor } from "./shrinkage/pooling-factor";
