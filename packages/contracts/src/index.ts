@@ -8,3 +8,8 @@ export * from "./model-settings";
 export * from "./datasets";
 export * from "./runs";
 export * from "./dashboards";
+export * from "./draw-set";
+export * from "./plans";
+export * from "./people";
+export * from "./outbox";
+export * from "./reports";
