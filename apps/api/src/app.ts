@@ -14,7 +14,8 @@ import { defaultConfig, type AppConfig } from "./config";
 import type { Database } from "./db/client";
 import { apiNotFound, errorHandler } from "./http/error-handler";
 import { Forbidden } from "./http/errors";
-import { createOutboxMailer, type Mailer } from "./mail/mailer";
+import type { Mailer } from "./mail/mailer";
+import { createMailer } from "./mail/smtp";
 import type { FitJobInput, FitJobOutput, FitJobProgress, FitJobRunner, FitWorkerOptions } from "./jobs/fit-job";
 import { LocalJobRunner } from "./jobs/local-job-runner";
 import { routeTable } from "./routes";
@@ -77,7 +78,7 @@ export function createApp(options: CreateAppOptions): Express {
     db: options.db,
     config,
     auth: createAuth(options.db, config),
-    mailer: options.mailer ?? createOutboxMailer(options.db),
+    mailer: options.mailer ?? createMailer(options.db, config.smtp),
     uploads: new UploadStore({ ttlMs: config.uploadTtlMinutes * 60_000 }),
     runs: new RunService(options.db, options.jobRunner ?? localFitRunner(config), logger),
   };

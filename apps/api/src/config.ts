@@ -2,6 +2,7 @@
 import { readFileSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { fileURLToPath } from "node:url";
+import { smtpSettingsFromEnv, type SmtpSettings } from "./mail/smtp";
 
 export interface AppConfig {
   /** Shown by GET /api/health. */
@@ -24,6 +25,10 @@ export interface AppConfig {
   readonly fitConcurrency: number;
   /** Threads one fit may use for its chains; default: the cores shared out among the concurrent fits. */
   readonly fitChainThreads: number;
+  /** The address people reach the app at (links in e-mails); taken from each request when null. */
+  readonly publicUrl: string | null;
+  /** SMTP delivery of e-mail; null: the outbox table only (local mode). */
+  readonly smtp: SmtpSettings | null;
 }
 
 export const repoRoot = fileURLToPath(new URL("../../../", import.meta.url));
@@ -44,6 +49,8 @@ export const defaultConfig: AppConfig = {
   uploadTtlMinutes: 60,
   fitConcurrency: 1,
   fitChainThreads: availableParallelism(),
+  publicUrl: null,
+  smtp: null,
 };
 
 function positiveInteger(env: NodeJS.ProcessEnv, name: string, fallback: number): number {
@@ -66,6 +73,13 @@ function trustProxyFrom(raw: string | undefined): boolean | number | string {
   return /^\d+$/.test(raw) ? Number(raw) : raw;
 }
 
+function publicUrlFrom(raw: string | undefined): string | null {
+  if (raw === undefined || raw === "") return null;
+  const url = URL.canParse(raw) ? new URL(raw) : null;
+  if (!url || (url.protocol !== "http:" && url.protocol !== "https:")) throw new Error(`PUBLIC_URL must be an http(s) address, got "${raw}"`);
+  return url.origin + url.pathname.replace(/\/+$/, "");
+}
+
 /** Config from environment variables (see apps/api/README.md). Throws a clear message on bad values. */
 export function configFromEnv(env: NodeJS.ProcessEnv, webDistDir: string | null): AppConfig {
   const fitConcurrency = positiveInteger(env, "FIT_CONCURRENCY", defaultConfig.fitConcurrency);
@@ -83,5 +97,7 @@ export function configFromEnv(env: NodeJS.ProcessEnv, webDistDir: string | null)
     uploadTtlMinutes: positiveNumber(env, "UPLOAD_TTL_MINUTES", defaultConfig.uploadTtlMinutes),
     fitConcurrency,
     fitChainThreads: positiveInteger(env, "FIT_CHAIN_THREADS", Math.max(1, Math.floor(availableParallelism() / fitConcurrency))),
+    publicUrl: publicUrlFrom(env.PUBLIC_URL),
+    smtp: smtpSettingsFromEnv(env),
   };
 }
