@@ -1,4 +1,5 @@
 // An invented draw set for planning tests: built from numbers, no sampler and no server.
+import { DRAW_SET_FORMAT, encodeFloat64, type DrawSetWire } from "@tributary/contracts";
 import { absoluteWeekOf, createRandomSource, type DrawSet, type DrawSetCell } from "@tributary/stats";
 
 type FixtureCell = { brand: string; market: string; firstWeek: string; weeks: number; typicalSpend: [number, number] };
@@ -80,5 +81,73 @@ export function fixtureDrawSet(draws = 60, seed = 7): DrawSet {
     controlCoef: new Float64Array(0),
     sigma: perCell((g) => 15 + 3 * g),
     nu: new Float64Array(D * G).fill(Infinity),
+  };
+}
+
+/** Workspace ids of the fixture cells, brands and markets (as in test-utils' test portfolio where they overlap). */
+export const fixtureCellIds = ["c1", "c3", "c2"];
+const brandIds: Record<string, string> = { Fennick: "b-fen", Hollowby: "b-hol" };
+const marketIds: Record<string, string> = { Ardeval: "m-ard", Briskmoor: "m-bri" };
+
+/** The draw set as GET /api/runs/current/draw-set sends it (only the given cells, as a market manager would get). */
+export function fixtureDrawSetWire(set: DrawSet = fixtureDrawSet(), onlyCells?: string[]): DrawSetWire {
+  const keep = set.cells.map((_, g) => onlyCells === undefined || onlyCells.includes(fixtureCellIds[g]!));
+  const G = set.cells.length;
+  const pick = (values: Float64Array, width: number) => {
+    const out: number[] = [];
+    for (let d = 0; d < set.drawCount; d++) for (let g = 0; g < G; g++) if (keep[g]) for (let k = 0; k < width; k++) out.push(values[(d * G + g) * width + k]!);
+    return encodeFloat64(out);
+  };
+  const C = set.channels.length;
+  const J = set.seasonalityOrder;
+  const K = set.controls.length;
+  return {
+    format: DRAW_SET_FORMAT,
+    runId: "run-7",
+    publishedAt: "2025-01-06T09:30:00.000Z",
+    currency: "EUR",
+    model: set.model,
+    saturation: set.saturation,
+    likelihood: set.likelihood,
+    maxLag: set.maxLag,
+    seasonalityOrder: J,
+    channels: [...set.channels],
+    controls: [...set.controls],
+    cells: set.cells.flatMap((cell, g) =>
+      keep[g]
+        ? [
+            {
+              cellId: fixtureCellIds[g]!,
+              brandId: brandIds[cell.brand]!,
+              marketId: marketIds[cell.market]!,
+              brand: cell.brand,
+              market: cell.market,
+              firstWeek: cell.firstWeek,
+              firstAbsoluteWeek: cell.firstAbsoluteWeek,
+              weeks: cell.weeks,
+              trainWeeks: cell.trainWeeks,
+              outcome: encodeFloat64(cell.outcome),
+              spend: cell.spend.map((s) => encodeFloat64(s)),
+              seasonalMean: encodeFloat64(cell.seasonalMean),
+              controlsStandardised: cell.controlsStandardised.map((s) => encodeFloat64(s)),
+            },
+          ]
+        : [],
+    ),
+    drawCount: set.drawCount,
+    arrays: {
+      beta: pick(set.beta, C),
+      theta: pick(set.theta, C),
+      alpha: pick(set.alpha, C),
+      hillShape: pick(set.hillShape, C),
+      baselineLevel: pick(set.baselineLevel, 1),
+      beta1: pick(set.beta1, 1),
+      gamma: pick(set.gamma, J),
+      delta: pick(set.delta, J),
+      controlCoef: pick(set.controlCoef, K),
+      sigma: pick(set.sigma, 1),
+      nu: pick(set.nu, 1),
+    },
+    caution: "Estimates are model-based; confirm large moves with a lift test.",
   };
 }

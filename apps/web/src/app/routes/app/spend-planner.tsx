@@ -3,5 +3,5 @@ import { SpendPlanner } from "../../../features/spend-planner/components/spend-p
 
 export default function SpendPlannerRoute() {
   const user = useSignedInUser();
-  return <SpendPlanner scopedToMarkets={user.role === "market_manager"} />;
+  return <SpendPlanner user={user} />;
 }

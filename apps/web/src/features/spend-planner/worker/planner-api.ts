@@ -71,7 +71,14 @@ export type ScenarioResult =
   | { id: string; name: string; ok: false; message: string };
 
 export type PlannerResponse =
-  | { ok: true; current: PlanSummary & { weeksAveraged: number[] }; scenarios: ScenarioResult[]; drawCount: number; elapsedMs: number }
+  | {
+      ok: true;
+      /** The current plan with edits; `recentAverages` are its lines' weekly spend before the edits, in line order. */
+      current: PlanSummary & { weeksAveraged: number[]; recentAverages: number[] };
+      scenarios: ScenarioResult[];
+      drawCount: number;
+      elapsedMs: number;
+    }
   | { ok: false; message: string; elapsedMs: number };
 
 const now = () => (typeof performance !== "undefined" ? performance.now() : Date.now());
@@ -114,7 +121,8 @@ function editedCurrentPlan(set: DrawSet, request: PlannerRequest) {
     weekly: edit.weekly,
   }));
   try {
-    return { plan: edits.length === 0 ? base : applyScenario(base, edits), weeksAveraged: base.weeksAveraged };
+    const recentAverages = linesOf(base).map((line) => line.weekly[0] ?? 0);
+    return { plan: edits.length === 0 ? base : applyScenario(base, edits), weeksAveraged: [...base.weeksAveraged], recentAverages };
   } catch (error) {
     throw new Error(`The current plan cannot take that edit: ${messageOf(error).replace(/^operation \d+ \(set\)(: )?/, "")}`);
   }
@@ -144,7 +152,7 @@ export function createPlannerApi() {
       if (!set) return { ok: false, message: "The draw set of the current fit is not loaded yet.", elapsedMs: now() - start };
       try {
         const seed = request.seed ?? 1;
-        const { plan: reference, weeksAveraged } = editedCurrentPlan(set, request);
+        const { plan: reference, weeksAveraged, recentAverages } = editedCurrentPlan(set, request);
         const referenceForecast = forecastPlan(set, reference, { seed });
         const scenarios = request.scenarios.map((scenario): ScenarioResult => {
           try {
@@ -170,7 +178,7 @@ export function createPlannerApi() {
         });
         return {
           ok: true,
-          current: { ...summarise(reference, referenceForecast), weeksAveraged },
+          current: { ...summarise(reference, referenceForecast), weeksAveraged, recentAverages },
           scenarios,
           drawCount: set.drawCount,
           elapsedMs: now() - start,

@@ -77,6 +77,9 @@ describe("spend-planner worker API", () => {
     if (!response.ok) throw new Error(response.message);
     const radio = response.current.lines.find((line) => line.brand === "Hollowby" && line.channel === "radio")!;
     expect(radio.weekly).toEqual(Array(8).fill(0));
+    // The line's recent average is still reported beside the edit.
+    const at = response.current.lines.indexOf(radio);
+    expect(response.current.recentAverages[at]).toBeGreaterThan(0);
     const scenario = response.scenarios[0]!;
     if (!scenario.ok) throw new Error(scenario.message);
     expect(scenario.plan.lines.find((line) => line.brand === "Hollowby" && line.channel === "radio")!.total).toBe(0);

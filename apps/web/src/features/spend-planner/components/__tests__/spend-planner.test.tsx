@@ -1,0 +1,113 @@
+import type { PlanSummary } from "@tributary/contracts";
+import { fireEvent, screen, waitFor, within } from "@testing-library/react";
+import { describe, expect, it } from "vitest";
+import { fixtureDrawSetWire } from "../../../../testing/draw-set-fixtures";
+import { jsonResponse, renderWithProviders, stubFetch, testUsers } from "../../../../testing/test-utils";
+import { inlinePlannerRunner } from "../../worker/planner-runner";
+import { SpendPlanner } from "../spend-planner";
+
+const wait = { timeout: 5000 };
+
+function savedPlan(): PlanSummary {
+  return {
+    id: "p-1",
+    kind: "scenario",
+    name: "Quiet radio",
+    status: "draft",
+    runId: "run-7",
+    runIsCurrent: true,
+    markets: [{ id: "m-bri", name: "Briskmoor" }],
+    cellCount: 1,
+    horizon: 13,
+    spend: 9100,
+    extraCustomers: { mean: -3, sd: 1, q05: -5, q25: -4, q50: -3, q75: -2, q95: -1 },
+    createdBy: { id: "u-m", name: "Mika Dorne" },
+    createdAt: "2025-01-07T10:00:00.000Z",
+    updatedAt: "2025-01-07T10:00:00.000Z",
+    decidedAt: null,
+  };
+}
+
+describe("SpendPlanner", () => {
+  it("forecasts the current plan and a scenario in the browser, and compares them", async () => {
+    stubFetch({
+      "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()),
+      "GET /api/plans": () => jsonResponse(200, []),
+    });
+    renderWithProviders(<SpendPlanner user={testUsers.analyst} runner={inlinePlannerRunner()} />);
+    const current = await screen.findByRole("table", { name: "Current plan per line" }, wait);
+    // Three cells × two channels.
+    expect(within(current).getAllByRole("row")).toHaveLength(7);
+    const comparison = await screen.findByRole("table", { name: "Scenarios against the current plan" }, wait);
+    const scenarioRow = within(comparison).getByRole("row", { name: /Scenario A/ });
+    // 20 % more search: more spend, a cost per extra customer in money, never a silly number.
+    expect(scenarioRow.textContent).toMatch(/€[\d,]+ per extra customer/);
+    expect(screen.getByRole("figure", { name: "New customers per week: current plan and scenarios" })).toBeTruthy();
+    expect(screen.getAllByRole("complementary", { name: "Caution about estimates" }).length).toBeGreaterThanOrEqual(2);
+  });
+
+  it("updates the forecast when a line of the current plan is edited, and saves a scenario with the edit first", async () => {
+    const { calls } = stubFetch({
+      "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()),
+      "GET /api/plans": () => jsonResponse(200, []),
+      "POST /api/plans/scenarios": ({ body }) => jsonResponse(400, { error: { code: "invalid_input", message: "Some of what you entered is not valid.", issues: [{ path: "name", message: `A plan named “${(body as { name: string }).name}” exists` }] } }),
+    });
+    renderWithProviders(<SpendPlanner user={testUsers.analyst} runner={inlinePlannerRunner()} />);
+    await screen.findByRole("table", { name: "Scenarios against the current plan" }, wait);
+    const spendCell = () => within(screen.getByRole("table", { name: "Scenarios against the current plan" })).getByRole("row", { name: /^Current plan/ }).textContent;
+    const before = spendCell();
+    fireEvent.change(screen.getByRole("textbox", { name: "Planned weekly spend, radio in Hollowby Ardeval" }), { target: { value: "0" } });
+    await waitFor(() => expect(spendCell()).not.toBe(before), wait);
+    expect(screen.getByRole("button", { name: "Back to the recent average, radio in Hollowby Ardeval" })).toBeTruthy();
+
+    const form = screen.getByRole("form", { name: "Save Scenario A" });
+    fireEvent.change(within(form).getByLabelText("Save as"), { target: { value: "Radio off in Ardeval" } });
+    fireEvent.click(within(form).getByRole("button", { name: "Save scenario" }));
+    await within(form).findByText("A plan named “Radio off in Ardeval” exists", {}, wait);
+    const post = calls.find((call) => call.method === "POST");
+    expect(post?.body).toEqual({
+      name: "Radio off in Ardeval",
+      runId: "run-7",
+      cellIds: ["c1", "c3", "c2"],
+      horizon: 13,
+      recentWeeks: 13,
+      seed: 1,
+      operations: [
+        { kind: "set", target: { cells: [{ brand: "Hollowby", market: "Ardeval" }], channels: ["radio"] }, weekly: 0 },
+        { kind: "scale", factor: 1.2, target: { channels: ["search"] } },
+      ],
+    });
+  });
+
+  it("holds the forecast back while an edit is not a number, and says why", async () => {
+    stubFetch({ "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()), "GET /api/plans": () => jsonResponse(200, []) });
+    renderWithProviders(<SpendPlanner user={testUsers.analyst} runner={inlinePlannerRunner()} />);
+    await screen.findByRole("table", { name: "Scenarios against the current plan" }, wait);
+    fireEvent.change(screen.getByRole("textbox", { name: "Planned weekly spend, search in Fennick Ardeval" }), { target: { value: "-40" } });
+    expect(screen.getByText("Every planned weekly spend must be a number of 0 or more.")).toBeTruthy();
+    fireEvent.change(screen.getByLabelText("Weeks to plan"), { target: { value: "0" } });
+    expect(screen.getByText("Weeks to plan must be a whole number from 1 to 156")).toBeTruthy();
+  });
+
+  it("plans a market manager's own market only, and lists the scenarios saved for it", async () => {
+    stubFetch({
+      "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire(undefined, ["c2"])),
+      "GET /api/plans": () => jsonResponse(200, [savedPlan()]),
+    });
+    renderWithProviders(<SpendPlanner user={testUsers.market_manager} runner={inlinePlannerRunner()} />);
+    expect(await screen.findByText("You see and plan your own markets only.")).toBeTruthy();
+    const current = await screen.findByRole("table", { name: "Current plan per line" }, wait);
+    expect(within(current).getAllByRole("row")).toHaveLength(3);
+    expect(within(current).queryByText(/Ardeval/)).toBeNull();
+    const saved = await screen.findByRole("table", { name: "Saved scenarios" });
+    expect(within(saved).getByRole("row", { name: /Quiet radio/ }).textContent).toMatch(/Briskmoor/);
+    expect(within(saved).getByRole("button", { name: "Delete Quiet radio" })).toBeTruthy();
+  });
+
+  it("says plainly when there is no published fit to plan with", async () => {
+    stubFetch({ "GET /api/runs/current/draw-set": () => jsonResponse(404, { error: { code: "not_found", message: "No run has been published yet." } }) });
+    renderWithProviders(<SpendPlanner user={testUsers.portfolio_lead} runner={inlinePlannerRunner()} />);
+    expect(await screen.findByRole("heading", { name: "No published fit yet" })).toBeTruthy();
+    expect(screen.getByRole("complementary", { name: "Caution about estimates" }).textContent).toMatch(/lift test/);
+  });
+});
