@@ -3,6 +3,8 @@ import type { Route } from "../access/route-table";
 import { authRoutes } from "./auth";
 import { brandRoutes } from "./brands";
 import { channelRoutes } from "./channels";
+import { dashboardRoutes } from "./dashboards";
+import { flagRoutes } from "./flags";
 import { healthRoutes } from "./health";
 import { marketRoutes } from "./markets";
 import { portfolioRoutes } from "./portfolio";
@@ -10,6 +12,7 @@ import { datasetRoutes } from "./datasets";
 import { liftTestRoutes } from "./lift-tests";
 import { modelSettingsRoutes } from "./model-settings";
 import { runRoutes } from "./runs";
+import { planRoutes } from "./plans";
 import { uploadRoutes } from "./uploads";
 
 export const routeTable: readonly Route[] = [
@@ -24,4 +27,7 @@ export const routeTable: readonly Route[] = [
   ...liftTestRoutes,
   ...modelSettingsRoutes,
   ...runRoutes,
+  ...dashboardRoutes,
+  ...flagRoutes,
+  ...planRoutes,
 ];
