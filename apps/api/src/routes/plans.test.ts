@@ -34,9 +34,13 @@ const cellId = new Map<string, string>();
 beforeAll(async () => {
   t = await demoTestApp();
   runId = (await publishTinyRun(t)).id;
-  [analyst, lead, admin, veltria, south] = await Promise.all(
-    [demoUsers.analyst, demoUsers.portfolioLead, demoUsers.admin, demoUsers.veltriaManager, demoUsers.southManager].map((u) => signedInAgent(t.app, u)),
-  );
+  [analyst, lead, admin, veltria, south] = await Promise.all([
+    signedInAgent(t.app, demoUsers.analyst),
+    signedInAgent(t.app, demoUsers.portfolioLead),
+    signedInAgent(t.app, demoUsers.admin),
+    signedInAgent(t.app, demoUsers.veltriaManager),
+    signedInAgent(t.app, demoUsers.southManager),
+  ]);
   const wire = drawSetWireSchema.parse((await lead.get("/api/runs/current/draw-set").expect(200)).body);
   for (const cell of wire.cells) cellId.set(`${cell.brand} × ${cell.market}`, cell.cellId);
 });
