@@ -18,6 +18,7 @@ import type { Mailer } from "./mail/mailer";
 import { createMailer } from "./mail/smtp";
 import type { FitJobInput, FitJobOutput, FitJobProgress, FitJobRunner, FitWorkerOptions } from "./jobs/fit-job";
 import { LocalJobRunner } from "./jobs/local-job-runner";
+import { DashboardCache } from "./dashboards/dashboard-cache";
 import { routeTable } from "./routes";
 import { RunService } from "./runs/run-service";
 import { UploadStore } from "./uploads/upload-store";
@@ -81,6 +82,7 @@ export function createApp(options: CreateAppOptions): Express {
     mailer: options.mailer ?? createMailer(options.db, config.smtp),
     uploads: new UploadStore({ ttlMs: config.uploadTtlMinutes * 60_000 }),
     runs: new RunService(options.db, options.jobRunner ?? localFitRunner(config), logger),
+    dashboards: new DashboardCache(options.db, { log: logger }),
   };
 
   const app = express();

@@ -2,7 +2,9 @@
 // serves the API and the built web app. Settings come from the environment (README).
 import { existsSync } from "node:fs";
 import { join, resolve } from "node:path";
-import { createApp, shutdownApp } from "./app";
+import { appDeps, createApp, shutdownApp } from "./app";
+import { publishedRunIds } from "./dashboards/dashboard-context";
+import { demoFitModeFromEnv, queueDemoFit, resumeDemoFit } from "./demo/demo-fit";
 import { configFromEnv, repoRoot } from "./config";
 import { closeDatabase, createDatabase } from "./db/client";
 import { seedDemo } from "./demo/seed-demo";
@@ -15,6 +17,7 @@ async function main(): Promise<void> {
   const webDist = join(repoRoot, "apps", "web", "dist");
   const webDistDir = existsSync(join(webDist, "index.html")) ? webDist : null;
   const config = configFromEnv(process.env, webDistDir);
+  const demoFit = demoFitModeFromEnv(process.env);
 
   const db = await createDatabase({ dataDir });
   const seed = await seedDemo(db);
@@ -24,6 +27,19 @@ async function main(): Promise<void> {
   if (!webDistDir) console.warn(`The web app is not built (no ${webDist}/index.html): run \`pnpm build\`. Serving the API only.`);
 
   const app = createApp({ db, config });
+  const deps = appDeps(app);
+  const demoFitDeps = { db, runs: deps.runs, dashboards: deps.dashboards };
+  if (seed.seeded) {
+    const queued = await queueDemoFit(demoFitDeps, demoFit);
+    if (queued) console.log(`Fitting the demo portfolio (DEMO_FIT=${demoFit}); it is published when it finishes. Progress: GET /api/dashboards/status`);
+  } else {
+    const resumed = await resumeDemoFit(demoFitDeps, demoFit);
+    if (resumed.action === "published") console.log("Published the demo's first fit, which finished before the server stopped");
+    if (resumed.action === "restarted") console.log("Restarted the demo's first fit, which the server stopped while it ran");
+  }
+  // The dashboards' numbers of the current run, computed before the first request.
+  const { current } = await publishedRunIds(db);
+  if (current) deps.dashboards.warm(current);
   const server = app.listen(port, () => {
     const address = server.address();
     const actualPort = typeof address === "object" && address ? address.port : port;

@@ -4,6 +4,7 @@ import type { Request, RequestHandler, Response } from "express";
 import type { CurrentUser, Role } from "@tributary/contracts";
 import type { AppConfig } from "../config";
 import type { Auth } from "../auth/lucia";
+import type { DashboardCache } from "../dashboards/dashboard-cache";
 import type { Database } from "../db/client";
 import type { Mailer } from "../mail/mailer";
 import type { RunService } from "../runs/run-service";
@@ -19,6 +20,8 @@ export interface AppDeps {
   readonly uploads: UploadStore;
   /** Fit runs: start, cancel, restart, live progress. */
   readonly runs: RunService;
+  /** The dashboards' per-run numbers, computed once per run and kept in memory. */
+  readonly dashboards: DashboardCache;
 }
 
 /** How a route finds the market(s) a request touches. */

@@ -2,9 +2,7 @@
 // (who see every market); market managers and portfolio leads are refused with 403.
 // /api/runs/current is open to every role and filters the estimates to the viewer's
 // markets centrally (runResultsFor), so no other market's numbers reach a market manager.
-import { eq } from "drizzle-orm";
 import {
-  PUBLISH_REASON_MIN_LENGTH,
   publishRunInput,
   runStatuses,
   startRunInput,
@@ -15,9 +13,9 @@ import {
   type RunStatus,
 } from "@tributary/contracts";
 import { defineRoute, markets, signedIn } from "../access/route-table";
-import { auditLog, runs } from "../db/schema";
-import { Conflict, Invalid, NotFound } from "../http/errors";
+import { Invalid, NotFound } from "../http/errors";
 import { currentRunId, listRunRecords, runRecord } from "../runs/run-queries";
+import { publishRun } from "../runs/publish-run";
 import { runReportOf, runResultsFor } from "../runs/run-results";
 
 const fitRoles = ["analyst", "admin"] as const;
@@ -152,28 +150,12 @@ export const runRoutes = [
     method: "post",
     path: "/api/runs/:runId/publish",
     access: signedIn(markets.unscoped, fitRoles),
-    handler: async ({ req, db, user, runs: service }): Promise<Run> => {
+    handler: async ({ req, db, user, runs: service, dashboards }): Promise<Run> => {
       const runId = String(req.params.runId);
       const input = publishRunInput.parse(req.body ?? {});
-      const run = await runRecord(db, runId);
-      if (run.status !== "succeeded") throw new Conflict(`Only a finished run can be published; this one is ${run.status}`);
-      if (run.current) throw new Conflict("This run is already the current one");
-      const reason = input.reason && input.reason.length > 0 ? input.reason : null;
-      if (run.trust.trustworthy !== true && (reason === null || reason.length < PUBLISH_REASON_MIN_LENGTH)) {
-        throw new Invalid(
-          `This run did not pass the convergence checks; to publish it anyway, write why (at least ${PUBLISH_REASON_MIN_LENGTH} characters). The reason is shown wherever its numbers appear.`,
-          [{ path: "reason", message: `Write at least ${PUBLISH_REASON_MIN_LENGTH} characters on why this run can be used despite: ${run.trust.reasons.join(" ")}` }],
-        );
-      }
-      await db.transaction(async (tx) => {
-        await tx.update(runs).set({ publishedAt: new Date(), publishedBy: user.id, publishReason: reason }).where(eq(runs.id, runId));
-        await tx.insert(auditLog).values({
-          userId: user.id,
-          action: "run_published",
-          target: `run:${runId}`,
-          details: { trustworthy: run.trust.trustworthy, reason, datasetVersionId: run.datasetVersionId },
-        });
-      });
+      await publishRun(db, runId, user.id, input.reason);
+      // The dashboards read the new current run: compute its numbers before the first request.
+      dashboards.warm(runId);
       return runRecord(db, runId, service.live);
     },
   }),

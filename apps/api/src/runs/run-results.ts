@@ -20,7 +20,7 @@ import type { MarketScope } from "../access/route-table";
 import type { Queryable } from "../db/client";
 import { cells, runDraws, runResults, runs, workspaceSettings } from "../db/schema";
 import { Conflict, NotFound } from "../http/errors";
-import { runDrawSet, type NamedDrawRows } from "../jobs/predictive-check";
+import { concatenateDraws, runDrawSet, type NamedDrawRows } from "../jobs/predictive-check";
 import { fitOptionsOf, loadFitInput } from "./fit-input";
 import { modelSettingsRecord } from "./model-settings-queries";
 import { runForScope } from "./run-queries";
@@ -38,6 +38,11 @@ function requireSucceeded(run: Run): void {
 
 /** The fit's result as stored, with the workspace cell id of each of its cell indices. */
 export type StoredFitResult = FitSummaries & { readonly cellIds: readonly string[] };
+
+/** The fit's stored result (summaries, shrinkage, pooling factors) with its cell ids. */
+export function storedFitResult(db: Queryable, runId: string): Promise<StoredFitResult> {
+  return storedResult<StoredFitResult>(db, runId, resultKinds.fit);
+}
 
 /** Workspace ids (cell, brand, market) of the fit's cells, by cell index. */
 async function cellRefs(db: Queryable, cellIds: readonly string[]) {
@@ -129,6 +134,18 @@ export async function loadRunDraws(db: Queryable, runId: string, kind = "pooled"
 
 /** The run's draw set for planning (decision quantities per draw), rebuilt from its data, settings and kept draws. */
 export async function loadRunDrawSet(db: Queryable, runId: string): Promise<DrawSet> {
+  return (await loadRunPosterior(db, runId)).drawSet;
+}
+
+/** A run's kept draws: the planning draw set and the draws under their parameter names (all chains, one after another). */
+export interface RunPosterior {
+  readonly drawSet: DrawSet;
+  readonly draws: NamedDrawRows;
+  /** Workspace cell ids by the fit's cell index (the draw set's cell order). */
+  readonly cellIds: readonly string[];
+}
+
+export async function loadRunPosterior(db: Queryable, runId: string): Promise<RunPosterior> {
   const [run] = await db.select().from(runs).where(eq(runs.id, runId));
   if (!run) throw new NotFound("No such run");
   if (run.status !== "succeeded") throw new Conflict(`The run has no draws: it is ${run.status}`);
@@ -144,5 +161,7 @@ export async function loadRunDrawSet(db: Queryable, runId: string): Promise<Draw
     return input.data.cells[g]!;
   });
   // Lift tests do not enter the draw set; today's list may differ from the run's, so none is passed.
-  return runDrawSet({ ...input.data, cells: cellsInFitOrder }, fitOptionsOf(settings, run.seed, []), await loadRunDraws(db, runId));
+  const chains = await loadRunDraws(db, runId);
+  const drawSet = runDrawSet({ ...input.data, cells: cellsInFitOrder }, fitOptionsOf(settings, run.seed, []), chains);
+  return { drawSet, draws: concatenateDraws(chains), cellIds };
 }
