@@ -19,7 +19,8 @@ import { budgetSplit, comparePlans, currentPlan, applyScenario, type DrawSet } f
 import { auditLog, cells, markets, outbox, plans } from "../db/schema";
 import { demoUsers } from "../demo/users";
 import { loadRunDrawSet } from "../runs/run-results";
-import { publishTinyRun } from "../testing/published-run";
+import { closeDatabase } from "../db/client";
+import { fittedDatabase } from "../testing/fitted-snapshot";
 import { demoTestApp, signedInAgent, type TestApp } from "../testing/test-app";
 import { toCsv } from "../plans/plan-csv";
 
@@ -32,8 +33,9 @@ let analyst: Agent, lead: Agent, admin: Agent, veltria: Agent, south: Agent;
 const cellId = new Map<string, string>();
 
 beforeAll(async () => {
-  t = await demoTestApp();
-  runId = (await publishTinyRun(t)).id;
+  const fitted = await fittedDatabase();
+  t = await demoTestApp({}, fitted.db);
+  runId = fitted.publishedRunId;
   [analyst, lead, admin, veltria, south] = await Promise.all([
     signedInAgent(t.app, demoUsers.analyst),
     signedInAgent(t.app, demoUsers.portfolioLead),
@@ -44,7 +46,10 @@ beforeAll(async () => {
   const wire = drawSetWireSchema.parse((await lead.get("/api/runs/current/draw-set").expect(200)).body);
   for (const cell of wire.cells) cellId.set(`${cell.brand} × ${cell.market}`, cell.cellId);
 });
-afterAll(() => t.close());
+afterAll(async () => {
+  await t.close();
+  await closeDatabase(t.db);
+});
 
 const kv = () => cellId.get("Kestrova × Veltria")!;
 const ks = () => cellId.get("Kestrova × Solvera")!;
