@@ -13,6 +13,8 @@ import { liftTestRoutes } from "./lift-tests";
 import { modelSettingsRoutes } from "./model-settings";
 import { runRoutes } from "./runs";
 import { planRoutes } from "./plans";
+import { peopleRoutes } from "./people";
+import { outboxRoutes } from "./outbox";
 import { uploadRoutes } from "./uploads";
 
 export const routeTable: readonly Route[] = [
@@ -30,4 +32,6 @@ export const routeTable: readonly Route[] = [
   ...dashboardRoutes,
   ...flagRoutes,
   ...planRoutes,
+  ...peopleRoutes,
+  ...outboxRoutes,
 ];

@@ -16,6 +16,8 @@ import { defineRoute, markets, signedIn } from "../access/route-table";
 import { Invalid, NotFound } from "../http/errors";
 import { currentRunId, listRunRecords, runRecord } from "../runs/run-queries";
 import { publishRun } from "../runs/publish-run";
+import { appBaseUrl } from "../mail/messages";
+import { notifyRunPublished } from "../mail/run-published";
 import { runReportOf, runResultsFor } from "../runs/run-results";
 
 const fitRoles = ["analyst", "admin"] as const;
@@ -150,10 +152,12 @@ export const runRoutes = [
     method: "post",
     path: "/api/runs/:runId/publish",
     access: signedIn(markets.unscoped, fitRoles),
-    handler: async ({ req, db, user, runs: service, dashboards }): Promise<Run> => {
+    handler: async ({ req, db, user, runs: service, dashboards, mailer, config }): Promise<Run> => {
       const runId = String(req.params.runId);
       const input = publishRunInput.parse(req.body ?? {});
       await publishRun(db, runId, user.id, input.reason);
+      // Market managers are told, each about their own markets only.
+      await notifyRunPublished(db, mailer, runId, appBaseUrl(config, req), req.log);
       // The dashboards read the new current run: compute its numbers before the first request.
       dashboards.warm(runId);
       return runRecord(db, runId, service.live);
