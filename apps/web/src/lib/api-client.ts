@@ -108,6 +108,24 @@ export function createApiClient(config: ApiClientConfig = {}) {
     return parsed.data;
   }
 
+  async function requestFile(url: string, options: RequestOptions): Promise<{ blob: Blob; fileName: string | null }> {
+    let response: Response;
+    try {
+      response = await doFetch(url, { method: "GET", credentials: "same-origin", signal: options.signal });
+    } catch (cause) {
+      if (cause instanceof DOMException && cause.name === "AbortError") throw cause;
+      throw new ApiError(0, "network", "Could not reach the server. Check your connection and try again.");
+    }
+    if (!response.ok) {
+      const error = await errorFromResponse(response);
+      if (response.status === 401 && options.redirectOnUnauthenticated !== false) config.onUnauthenticated?.();
+      throw error;
+    }
+    const disposition = response.headers.get("Content-Disposition") ?? "";
+    const fileName = /filename="?([^";]+)"?/i.exec(disposition)?.[1] ?? null;
+    return { blob: await response.blob(), fileName };
+  }
+
   return {
     get: <T>(url: string, schema: z.ZodType<T>, options: RequestOptions = {}) => request("GET", url, schema, undefined, options),
     post: <T>(url: string, schema: z.ZodType<T> | null, body?: unknown, options: RequestOptions = {}) =>
@@ -121,6 +139,8 @@ export function createApiClient(config: ApiClientConfig = {}) {
       request("PATCH", url, schema, body, options),
     delete: <T>(url: string, schema: z.ZodType<T> | null, options: RequestOptions = {}) =>
       request("DELETE", url, schema, undefined, options),
+    /** GET a file (e.g. a PDF): its bytes and the file name the server suggests; failures become ApiErrors like any call. */
+    getFile: (url: string, options: RequestOptions = {}) => requestFile(url, options),
   };
 }
 

@@ -1,5 +1,16 @@
+import type { QueryClient } from "@tanstack/react-query";
+import { useSignedInUser } from "../../../features/auth/api/get-current-user";
 import { BudgetSplit } from "../../../features/budget-split/components/budget-split";
+import { portfolioQueryOptions, usePortfolioData } from "../../../features/portfolio-map/api/get-portfolio";
+import { ReportDownloads } from "../../../features/reports/components/report-downloads";
+
+export const clientLoader = (queryClient: QueryClient) => async () => {
+  await queryClient.ensureQueryData(portfolioQueryOptions());
+  return null;
+};
 
 export default function BudgetSplitRoute() {
-  return <BudgetSplit />;
+  const user = useSignedInUser();
+  const portfolio = usePortfolioData();
+  return <BudgetSplit user={user} portfolio={portfolio} reports={<ReportDownloads brands={portfolio.brands} markets={portfolio.markets} />} />;
 }

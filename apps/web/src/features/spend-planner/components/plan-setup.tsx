@@ -1,6 +1,6 @@
 import type { DecodedDrawSetCell } from "@tributary/contracts";
 import { useId } from "react";
-import { Button } from "../../../components/ui/button";
+import { CellPicker } from "../../../components/cell-picker/cell-picker";
 import { describedBy, inputClass } from "../../../components/ui/field";
 
 type PlanSetupProps = {
@@ -18,52 +18,13 @@ type PlanSetupProps = {
 /** Which cells to plan, and for how many weeks. */
 export function PlanSetup({ cells, selected, onSelect, horizon, onHorizon, horizonError, recentWeeks, onRecentWeeks, recentWeeksError }: PlanSetupProps) {
   const id = useId();
-  const markets = [...new Set(cells.map((cell) => cell.market))].sort((a, b) => a.localeCompare(b));
-  const toggle = (cellId: string, on: boolean) => onSelect(on ? [...selected, cellId] : selected.filter((x) => x !== cellId));
-  const marketCells = (market: string) => cells.filter((cell) => cell.market === market);
   return (
     <section aria-labelledby={`${id}-title`} className="rounded-lg border border-line bg-surface p-5 shadow-card">
       <h2 id={`${id}-title`} className="text-heading font-semibold text-ink-900">
         What to plan
       </h2>
       <div className="mt-4 grid gap-6 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
-        <fieldset>
-          <legend className="text-small font-medium text-ink-800">Cells (brand in market)</legend>
-          <div className="mt-2 grid gap-3 sm:grid-cols-2 xl:grid-cols-3">
-            {markets.map((market) => {
-              const inMarket = marketCells(market);
-              const all = inMarket.every((cell) => selected.includes(cell.cellId));
-              return (
-                <div key={market} className="rounded-md border border-line p-3">
-                  <div className="flex items-center justify-between gap-2">
-                    <span className="text-small font-semibold text-ink-900">{market}</span>
-                    <Button
-                      variant="quiet"
-                      className="px-1.5! py-0.5! text-caption!"
-                      onClick={() =>
-                        onSelect(all ? selected.filter((x) => !inMarket.some((cell) => cell.cellId === x)) : [...new Set([...selected, ...inMarket.map((cell) => cell.cellId)])])
-                      }
-                      aria-label={all ? `Clear every cell of ${market}` : `Choose every cell of ${market}`}
-                    >
-                      {all ? "Clear" : "All"}
-                    </Button>
-                  </div>
-                  <ul className="mt-1 space-y-1">
-                    {inMarket.map((cell) => (
-                      <li key={cell.cellId}>
-                        <label className="flex items-center gap-2 text-small text-ink-800">
-                          <input type="checkbox" checked={selected.includes(cell.cellId)} onChange={(event) => toggle(cell.cellId, event.target.checked)} />
-                          {cell.brand} in {cell.market}
-                        </label>
-                      </li>
-                    ))}
-                  </ul>
-                </div>
-              );
-            })}
-          </div>
-          {selected.length === 0 ? <p className="mt-2 text-caption font-medium text-alert-700">Choose at least one cell to plan.</p> : null}
-        </fieldset>
+        <CellPicker cells={cells} selected={selected} onSelect={onSelect} />
         <div className="space-y-4">
           <div>
             <label htmlFor={`${id}-horizon`} className="block text-small font-medium text-ink-800">
