@@ -77,6 +77,12 @@ export function createAppRoutes(queryClient: QueryClient): RouteObject[] {
       HydrateFallback: () => <LoadingState />,
     },
     {
+      path: paths.auth.invite.path,
+      lazy: async () => ({ Component: (await import("./routes/invite")).default }),
+      ErrorBoundary: AppError,
+      HydrateFallback: () => <LoadingState />,
+    },
+    {
       path: paths.home.path,
       loader: appRootLoader(queryClient),
       Component: AppRoot,

@@ -16,6 +16,8 @@ export const paths = {
         return target && target !== "/" ? `/sign-in?redirectTo=${encodeURIComponent(target)}` : "/sign-in";
       },
     },
+    /** The public page an invitation e-mail links to. */
+    invite: { path: "/invite/:token", getHref: (token: string) => `/invite/${encodeURIComponent(token)}` },
   },
   app: {
     portfolioMap: { path: "/portfolio-map", getHref: () => "/portfolio-map" },
