@@ -5,7 +5,6 @@
 // narrows the run's cells to the viewer's markets in one place (exports included).
 import { and, arrayContained, desc, eq, sql } from "drizzle-orm";
 import type { BrandComparison, ChannelSheet, DashboardStatus, MarketDesk, PoolingReview, PortfolioMap } from "@tributary/contracts";
-import { seesAllMarkets } from "../access/market-scope";
 import { defineRoute, markets, signedIn, type MarketScope, type SignedInContext } from "../access/route-table";
 import { cells, plans, users } from "../db/schema";
 import { Conflict } from "../http/errors";
@@ -21,11 +20,10 @@ import {
   sendCsv,
   tableParam,
 } from "../dashboards/csv-export";
-import { dashboardContext, publishedRunIds, type DashboardContext } from "../dashboards/dashboard-context";
+import { dashboardContext, publishedRunIds, runForViewer, type DashboardContext } from "../dashboards/dashboard-context";
 import { brandComparisonView, channelSheetView, marketDeskView, poolingReviewView, portfolioMapView, sheetTarget } from "../dashboards/dashboard-views";
-import { listFlags } from "../dashboards/flags";
 import { demoFitStatus } from "../demo/demo-fit";
-import { runForScope, runRecord } from "../runs/run-queries";
+import { runRecord } from "../runs/run-queries";
 import type { Queryable } from "../db/client";
 
 const reviewRoles = ["analyst", "admin"] as const;
@@ -84,11 +82,11 @@ async function deskPlans(db: Queryable, scope: MarketScope, userId: string): Pro
 
 async function marketDesk(ctx: SignedInContext): Promise<MarketDesk> {
   const current = await context(ctx);
-  const { previous: previousId } = await publishedRunIds(ctx.db);
+  const previousId = current.published.previous;
   let previous: { run: DashboardContext["run"]; estimates: DashboardContext["estimates"] } | null = null;
-  if (previousId && previousId !== current.run.id) {
-    const [record, estimates] = await Promise.all([ctx.dashboards.runRecord(previousId, current.run.id), ctx.dashboards.estimates(previousId)]);
-    previous = { run: runForScope(record, { ...ctx.scope, allMarkets: seesAllMarkets(ctx.user) }), estimates };
+  if (previousId && previousId !== current.run.id && current.run.id === current.published.current) {
+    const [record, estimates] = await Promise.all([ctx.dashboards.runRecord(previousId, current.published.current), ctx.dashboards.estimates(previousId)]);
+    previous = { run: runForViewer(record, ctx), estimates };
   }
   const marketName = new Map(current.entities.markets.map((m) => [m.id, m.name] as const));
   const plansInScope = (await deskPlans(ctx.db, ctx.scope, ctx.user.id)).map((p) => ({ ...p, markets: p.marketIds.map((id) => marketName.get(id) ?? id) }));
@@ -98,10 +96,9 @@ async function marketDesk(ctx: SignedInContext): Promise<MarketDesk> {
 async function channelSheet(ctx: SignedInContext): Promise<ChannelSheet> {
   const current = await context(ctx);
   const target = sheetTarget(current, String(ctx.req.params.cellId), String(ctx.req.params.channel));
-  const [data, history] = await Promise.all([
-    ctx.dashboards.sheet(current.run.id, target.cell.estimate.g, target.c),
-    listFlags(ctx.db, ctx.scope, { status: "all", cellIds: [target.cell.cellId], channel: target.cell.estimate.channels[target.c]!.channel }),
-  ]);
+  const channel = target.cell.estimate.channels[target.c]!.channel;
+  const data = await ctx.dashboards.sheet(current.run.id, target.cell.estimate.g, target.c);
+  const history = current.flagHistory.filter((f) => f.cellId === target.cell.cellId && f.channel === channel);
   return channelSheetView(current, target, data, history);
 }
 
