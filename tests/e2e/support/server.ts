@@ -27,7 +27,7 @@ function freePort(): Promise<number> {
   });
 }
 
-export type RunningServer = { baseUrl: string; stop: () => Promise<void> };
+export type RunningServer = { baseUrl: string; stop: () => Promise<void>; output: () => string };
 
 async function waitForHealth(baseUrl: string, child: ChildProcess, output: () => string, timeoutMs: number): Promise<void> {
   const deadline = Date.now() + timeoutMs;
@@ -44,12 +44,17 @@ async function waitForHealth(baseUrl: string, child: ChildProcess, output: () =>
   throw new Error(`The API server did not answer /api/health within ${timeoutMs / 1000} s:\n${output()}`);
 }
 
-export async function startServer(): Promise<RunningServer> {
+export type ServerOptions = {
+  /** How the server fits and publishes the demo portfolio at first start (the API's DEMO_FIT). */
+  demoFit?: "off" | "quick" | "full";
+};
+
+export async function startServer({ demoFit = "off" }: ServerOptions = {}): Promise<RunningServer> {
   const port = await freePort();
   const dataDir = mkdtempSync(join(tmpdir(), "tributary-e2e-"));
   const child = spawn(bin("tsx"), [join(repoRoot, "apps/api/src/server.ts")], {
     cwd: repoRoot,
-    env: { ...process.env, PORT: String(port), DATA_DIR: dataDir, LOG_LEVEL: "warn", NODE_ENV: "test" },
+    env: { ...process.env, PORT: String(port), DATA_DIR: dataDir, LOG_LEVEL: "warn", NODE_ENV: "test", DEMO_FIT: demoFit },
     stdio: ["ignore", "pipe", "pipe"],
   });
   let log = "";
@@ -71,5 +76,28 @@ export async function startServer(): Promise<RunningServer> {
     await stop();
     throw error;
   }
-  return { baseUrl, stop };
+  return { baseUrl, stop, output: () => log };
+}
+
+/**
+ * Waits until the server answers GET /api/runs/current with a published run (the demo
+ * fit it starts by itself), signed in as `who`; returns how long that took.
+ */
+export async function waitForPublishedRun(server: RunningServer, who: { email: string; password: string }, timeoutMs: number): Promise<number> {
+  const started = Date.now();
+  const signIn = await fetch(`${server.baseUrl}/api/auth/sign-in`, {
+    method: "POST",
+    headers: { "Content-Type": "application/json" },
+    body: JSON.stringify({ email: who.email, password: who.password }),
+  });
+  if (!signIn.ok) throw new Error(`Signing in to wait for the demo fit failed (HTTP ${signIn.status})`);
+  const cookie = (signIn.headers.get("set-cookie") ?? "").split(";")[0] ?? "";
+  let last = "";
+  while (Date.now() - started < timeoutMs) {
+    const response = await fetch(`${server.baseUrl}/api/runs/current`, { headers: { cookie } });
+    if (response.ok) return Date.now() - started;
+    last = `HTTP ${response.status}: ${(await response.text()).slice(0, 300)}`;
+    await new Promise((resolve) => setTimeout(resolve, 2_000));
+  }
+  throw new Error(`No run was published within ${timeoutMs / 1000} s (last answer ${last}):\n${server.output().slice(-4000)}`);
 }

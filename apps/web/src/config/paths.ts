@@ -23,7 +23,12 @@ export const paths = {
     portfolioMap: { path: "/portfolio-map", getHref: () => "/portfolio-map" },
     brandComparison: { path: "/brand-comparison", getHref: () => "/brand-comparison" },
     marketDesk: { path: "/market-desk", getHref: () => "/market-desk" },
-    channelSheet: { path: "/channel-sheet", getHref: () => "/channel-sheet" },
+    channelSheet: {
+      path: "/channel-sheet",
+      /** One cell × channel; without them the sheet asks which. */
+      getHref: (selection?: { cellId: string; channel: string }) =>
+        selection ? `/channel-sheet?${new URLSearchParams({ cell: selection.cellId, channel: selection.channel }).toString()}` : "/channel-sheet",
+    },
     dataIntake: { path: "/data-intake", getHref: () => "/data-intake" },
     modelSetup: { path: "/model-setup", getHref: () => "/model-setup" },
     runs: { path: "/runs", getHref: () => "/runs" },

@@ -54,3 +54,33 @@ export function formatNumber(value: number | null, digits = 3): string {
   // A true minus sign, not a hyphen.
   return text.replace("-", "−");
 }
+
+/**
+ * A cost per new customer in the reporting currency with 3 significant digits:
+ * 48.26 → "€48.3", 1234 → "€1,230", 0.5 → "€0.5". Infinite costs read "∞".
+ */
+export function formatCac(amount: number | null, currency: string): string {
+  if (amount === null || Number.isNaN(amount)) return "–";
+  if (!Number.isFinite(amount)) return amount > 0 ? "∞" : "–";
+  try {
+    return new Intl.NumberFormat("en-GB", { style: "currency", currency, maximumSignificantDigits: 3 }).format(amount);
+  } catch {
+    return `${formatNumber(amount, 3)} ${currency}`;
+  }
+}
+
+/** A median and its 90 % interval: "€48.3 (€31–€77.4)". */
+export function formatCacInterval(median: number | null, low: number | null, high: number | null, currency: string): string {
+  return `${formatCac(median, currency)} (${formatCac(low, currency)}–${formatCac(high, currency)})`;
+}
+
+/**
+ * A chance 0–1 as a whole percentage: 0.734 → "73 %". Finitely many draws cannot show
+ * a certainty, so the ends read "< 1 %" and "> 99 %" rather than 0 % and 100 %.
+ */
+export function formatChance(share: number | null): string {
+  if (share === null || !Number.isFinite(share)) return "–";
+  if (share < 0.01) return "< 1 %";
+  if (share > 0.99) return "> 99 %";
+  return `${Math.round(share * 100)} %`;
+}

@@ -17,6 +17,26 @@ export function seriesColour(index: number): string {
   return palette[index % palette.length] ?? "currentColor";
 }
 
-export function tokenColour(name: "ink-900" | "ink-700" | "ink-500" | "ink-300" | "ink-200" | "stream-700" | "stream-500" | "stream-200" | "stream-100" | "silt-500" | "silt-300" | "caution-700" | "alert-700"): string {
+export type ChartToken =
+  | "ink-900"
+  | "ink-700"
+  | "ink-600"
+  | "ink-500"
+  | "ink-400"
+  | "ink-300"
+  | "ink-200"
+  | "ink-100"
+  | "stream-800"
+  | "stream-700"
+  | "stream-500"
+  | "stream-200"
+  | "stream-100"
+  | "silt-700"
+  | "silt-500"
+  | "silt-300"
+  | "caution-700"
+  | "alert-700";
+
+export function tokenColour(name: ChartToken): string {
   return token(`--color-${name}`);
 }

@@ -17,13 +17,15 @@ type PlotFigureProps = {
   render: (width: number) => Element;
   /** The numbers behind the chart, for people who cannot see it. */
   table: ChartTable;
-  /** Extra things under the caption (a legend of our own, notes). */
+  /** A key of our own, shown between the title and the chart. */
+  legend?: ReactNode;
+  /** Extra things under the caption (notes). */
   children?: ReactNode;
 };
 
 const FALLBACK_WIDTH = 800;
 
-export function PlotFigure({ title, caption, render, table, children }: PlotFigureProps) {
+export function PlotFigure({ title, caption, render, table, legend, children }: PlotFigureProps) {
   const holder = useRef<HTMLDivElement>(null);
   const [width, setWidth] = useState<number | null>(null);
   const [failure, setFailure] = useState<string | null>(null);
@@ -59,6 +61,7 @@ export function PlotFigure({ title, caption, render, table, children }: PlotFigu
       <h3 id={titleId} className="text-body font-semibold text-ink-900">
         {title}
       </h3>
+      {legend ? <div className="mt-2">{legend}</div> : null}
       <div ref={holder} className="plot-holder mt-2 w-full overflow-hidden" />
       {failure ? (
         <p role="alert" className="text-small text-alert-700">

@@ -1,5 +1,7 @@
 import type { QueryClient } from "@tanstack/react-query";
+import { paths } from "../../../config/paths";
 import { useSignedInUser } from "../../../features/auth/api/get-current-user";
+import { NoPublishedRun } from "../../../features/dashboard-status/components/no-published-run";
 import { MarketDesk } from "../../../features/market-desk/components/market-desk";
 import { portfolioQueryOptions, usePortfolioData } from "../../../features/portfolio-map/api/get-portfolio";
 
@@ -11,5 +13,13 @@ export const clientLoader = (queryClient: QueryClient) => async () => {
 export default function MarketDeskRoute() {
   const user = useSignedInUser();
   const portfolio = usePortfolioData();
-  return <MarketDesk portfolio={portfolio} userName={user.name} scopedToMarkets={user.role === "market_manager"} />;
+  return (
+    <MarketDesk
+      portfolio={portfolio}
+      userName={user.name}
+      scopedToMarkets={user.role === "market_manager"}
+      channelSheetHref={paths.app.channelSheet.getHref}
+      noPublishedRun={<NoPublishedRun screenLabel="Market desk" />}
+    />
+  );
 }

@@ -1,5 +1,17 @@
+import type { QueryClient } from "@tanstack/react-query";
+import type { LoaderFunctionArgs } from "react-router-dom";
+import { paths } from "../../../config/paths";
+import { NoPublishedRun } from "../../../features/dashboard-status/components/no-published-run";
+import { poolingReviewQueryOptions } from "../../../features/pooling-review/api/get-pooling-review";
 import { PoolingReview } from "../../../features/pooling-review/components/pooling-review";
 
+export const clientLoader =
+  (queryClient: QueryClient) =>
+  async ({ request }: LoaderFunctionArgs) => {
+    await queryClient.prefetchQuery(poolingReviewQueryOptions(new URL(request.url).searchParams.get("run")));
+    return null;
+  };
+
 export default function PoolingReviewRoute() {
-  return <PoolingReview />;
+  return <PoolingReview channelSheetHref={paths.app.channelSheet.getHref} noPublishedRun={<NoPublishedRun screenLabel="Pooling review" />} />;
 }
