@@ -1,12 +1,17 @@
 // In-memory cache of the dashboards' per-run numbers. A finished run never changes, so
 // its estimates are computed once (on first request, or ahead when it is published or
 // the server starts) and kept for the few most recently used runs; concurrent requests
-// share one computation. Flags, names and customer values are read fresh per request.
+// share one computation. Names, customer values, flags and plans are read in one query
+// and reused until the database changes: Postgres's transaction snapshot (xmin:xmax:
+// in-progress ids) moves with every transaction that writes, and costs next to nothing
+// to read, so an unchanged database is not read again.
+import { sql } from "drizzle-orm";
 import type { Logger } from "pino";
 import type { Run } from "@tributary/contracts";
 import type { Queryable } from "../db/client";
 import { runRecord } from "../runs/run-queries";
 import { computeChannelSheetData, type ChannelSheetData } from "./channel-sheet-data";
+import { loadDashboardSnapshot, type DashboardSnapshot } from "./dashboard-context";
 import { computeRunEstimates, type RunEstimates } from "./run-estimates";
 
 /** A small least-recently-used map of promises; a rejected promise is dropped so the next call retries. */
@@ -51,6 +56,22 @@ export class DashboardCache {
   }
 
   private readonly log: Logger | undefined;
+
+  private lastSnapshot: { key: string; value: Promise<DashboardSnapshot> } | null = null;
+
+  /** Published runs, names, values, flags and plans as of now (reread only after a write). */
+  async snapshot(): Promise<DashboardSnapshot> {
+    const result = await this.db.execute(sql`select pg_current_snapshot()::text as key`);
+    const key = String((result as unknown as { rows: { key: string }[] }).rows[0]!.key);
+    if (this.lastSnapshot?.key === key) return this.lastSnapshot.value;
+    const value = loadDashboardSnapshot(this.db);
+    const entry = { key, value };
+    this.lastSnapshot = entry;
+    value.catch(() => {
+      if (this.lastSnapshot === entry) this.lastSnapshot = null;
+    });
+    return value;
+  }
 
   estimates(runId: string): Promise<RunEstimates> {
     return this.estimatesByRun.get(runId, () => computeRunEstimates(this.db, runId));

@@ -41,6 +41,20 @@ export interface DashboardSnapshot {
   readonly entities: Entities;
   /** Every flag of every market (active and cleared), newest first; narrow with `flagsInScope`. */
   readonly flags: readonly Flag[];
+  /** Every saved plan (without its body), latest change first; narrow with `plansInScope`. */
+  readonly plans: readonly SnapshotPlan[];
+}
+
+export interface SnapshotPlan {
+  readonly id: string;
+  readonly name: string;
+  readonly kind: "scenario" | "budget_split";
+  readonly status: "draft" | "submitted" | "approved" | "rejected";
+  readonly runId: string;
+  readonly marketIds: readonly string[];
+  readonly createdAt: string;
+  readonly updatedAt: string;
+  readonly createdBy: { readonly id: string; readonly name: string } | null;
 }
 
 interface SnapshotRow {
@@ -56,6 +70,7 @@ interface SnapshotRow {
     clearedById: string | null;
     clearedByName: string | null;
   })[];
+  plans: (Omit<SnapshotPlan, "createdBy"> & { createdById: string | null; createdByName: string | null })[];
 }
 
 const byName = (a: { name: string }, b: { name: string }) => a.name.localeCompare(b.name);
@@ -83,7 +98,12 @@ export async function loadDashboardSnapshot(db: Queryable): Promise<DashboardSna
                 join markets m on m.id = c.market_id
                 join channels ch on ch.id = f.channel_id
                 left join users u on u.id = f.created_by
-                left join users cu on cu.id = f.cleared_by)
+                left join users cu on cu.id = f.cleared_by),
+      'plans', (select coalesce(json_agg(json_build_object(
+                  'id', p.id, 'name', p.name, 'kind', p.kind, 'status', p.status, 'runId', p.run_id, 'marketIds', p.market_ids,
+                  'createdAt', p.created_at, 'updatedAt', p.updated_at, 'createdById', p.created_by, 'createdByName', u.name
+                ) order by p.updated_at desc, p.id), '[]'::json)
+                from plans p left join users u on u.id = p.created_by)
     ) as snapshot`);
   const raw = (result as unknown as { rows: { snapshot: SnapshotRow | string }[] }).rows[0]!.snapshot;
   const data: SnapshotRow = typeof raw === "string" ? (JSON.parse(raw) as SnapshotRow) : raw;
@@ -111,7 +131,19 @@ export async function loadDashboardSnapshot(db: Queryable): Promise<DashboardSna
       cellById: new Map(data.cells.map((c) => [c.id, { brandId: c.brandId, marketId: c.marketId }] as const)),
     },
     flags,
+    plans: data.plans.map(({ createdById, createdByName, ...plan }) => ({
+      ...plan,
+      createdAt: iso(plan.createdAt)!,
+      updatedAt: iso(plan.updatedAt)!,
+      createdBy: createdById && createdByName ? { id: createdById, name: createdByName } : null,
+    })),
   };
+}
+
+/** Plans whose markets all lie in the scope (a market manager sees a plan only if every market is theirs). */
+export function plansInScope(plans: readonly SnapshotPlan[], scope: MarketScope): SnapshotPlan[] {
+  const allowed = new Set(scope.marketIds);
+  return plans.filter((p) => p.marketIds.length > 0 && p.marketIds.every((id) => allowed.has(id)));
 }
 
 /** Flags on cells in the scope's markets. */
@@ -157,6 +189,8 @@ export interface DashboardContext {
   readonly flagHistory: readonly Flag[];
   /** The current and previous published runs. */
   readonly published: DashboardSnapshot["published"];
+  /** Saved plans touching only the viewer's markets. */
+  readonly plans: readonly SnapshotPlan[];
   readonly caution: string;
 }
 
@@ -180,12 +214,11 @@ export function runForViewer(run: Run, viewer: { user: CurrentUser; scope: Marke
 
 /** The dashboard context of a run (the current published one unless `runId` is given). */
 export async function dashboardContext(
-  db: Queryable,
   cache: DashboardCache,
   viewer: { user: CurrentUser; scope: MarketScope },
   runId?: string,
 ): Promise<DashboardContext> {
-  const snapshot = await loadDashboardSnapshot(db);
+  const snapshot = await cache.snapshot();
   const id = runId ?? snapshot.published.current;
   if (!id) throw new NotFound(noPublishedRun);
   const [record, estimates] = await Promise.all([cache.runRecord(id, snapshot.published.current), cache.estimates(id)]);
@@ -202,6 +235,7 @@ export async function dashboardContext(
     flags: history.filter((f) => f.active && shown.has(f.cellId)),
     flagHistory: history,
     published: snapshot.published,
+    plans: plansInScope(snapshot.plans, viewer.scope),
     caution: modelCaution,
   };
 }

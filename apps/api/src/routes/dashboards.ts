@@ -3,10 +3,10 @@
 // (the Pooling review from any finished run). Market scope: every route declares its
 // rule here, and every response is built from `dashboardContext`, whose `visibleCells`
 // narrows the run's cells to the viewer's markets in one place (exports included).
-import { and, arrayContained, desc, eq, sql } from "drizzle-orm";
+import { eq } from "drizzle-orm";
 import type { BrandComparison, ChannelSheet, DashboardStatus, MarketDesk, PoolingReview, PortfolioMap } from "@tributary/contracts";
-import { defineRoute, markets, signedIn, type MarketScope, type SignedInContext } from "../access/route-table";
-import { cells, plans, users } from "../db/schema";
+import { defineRoute, markets, signedIn, type SignedInContext } from "../access/route-table";
+import { cells } from "../db/schema";
 import { Conflict } from "../http/errors";
 import {
   brandComparisonTable,
@@ -20,7 +20,7 @@ import {
   sendCsv,
   tableParam,
 } from "../dashboards/csv-export";
-import { dashboardContext, publishedRunIds, runForViewer, type DashboardContext } from "../dashboards/dashboard-context";
+import { dashboardContext, runForViewer, type DashboardContext } from "../dashboards/dashboard-context";
 import { brandComparisonView, channelSheetView, marketDeskView, poolingReviewView, portfolioMapView, sheetTarget } from "../dashboards/dashboard-views";
 import { demoFitStatus } from "../demo/demo-fit";
 import { runRecord } from "../runs/run-queries";
@@ -29,7 +29,7 @@ import type { Queryable } from "../db/client";
 const reviewRoles = ["analyst", "admin"] as const;
 
 function context(ctx: SignedInContext, runId?: string): Promise<DashboardContext> {
-  return dashboardContext(ctx.db, ctx.dashboards, { user: ctx.user, scope: ctx.scope }, runId);
+  return dashboardContext(ctx.dashboards, { user: ctx.user, scope: ctx.scope }, runId);
 }
 
 function channelQuery(raw: unknown): string | null {
@@ -45,41 +45,6 @@ async function brandComparison(ctx: SignedInContext): Promise<BrandComparison> {
   return brandComparisonView(await context(ctx));
 }
 
-/** Saved plans whose markets all lie in the scope (a market manager sees a plan only if every market is theirs). */
-async function deskPlans(db: Queryable, scope: MarketScope, userId: string): Promise<MarketDesk["plans"]> {
-  if (scope.marketIds.length === 0) return [];
-  const rows = await db
-    .select({
-      id: plans.id,
-      name: plans.name,
-      kind: plans.kind,
-      status: plans.status,
-      runId: plans.runId,
-      marketIds: plans.marketIds,
-      createdAt: plans.createdAt,
-      updatedAt: plans.updatedAt,
-      createdById: plans.createdBy,
-      createdByName: users.name,
-    })
-    .from(plans)
-    .leftJoin(users, eq(users.id, plans.createdBy))
-    .where(and(arrayContained(plans.marketIds, [...scope.marketIds]), sql`cardinality(${plans.marketIds}) > 0`))
-    .orderBy(desc(plans.updatedAt));
-  return rows.map((row) => ({
-    id: row.id,
-    name: row.name,
-    kind: row.kind,
-    status: row.status,
-    runId: row.runId,
-    marketIds: row.marketIds,
-    markets: [],
-    createdAt: row.createdAt.toISOString(),
-    updatedAt: row.updatedAt.toISOString(),
-    createdBy: row.createdById && row.createdByName ? { id: row.createdById, name: row.createdByName } : null,
-    mine: row.createdById === userId,
-  }));
-}
-
 async function marketDesk(ctx: SignedInContext): Promise<MarketDesk> {
   const current = await context(ctx);
   const previousId = current.published.previous;
@@ -89,8 +54,13 @@ async function marketDesk(ctx: SignedInContext): Promise<MarketDesk> {
     previous = { run: runForViewer(record, ctx), estimates };
   }
   const marketName = new Map(current.entities.markets.map((m) => [m.id, m.name] as const));
-  const plansInScope = (await deskPlans(ctx.db, ctx.scope, ctx.user.id)).map((p) => ({ ...p, markets: p.marketIds.map((id) => marketName.get(id) ?? id) }));
-  return marketDeskView(current, previous, plansInScope);
+  const plans = current.plans.map((p) => ({
+    ...p,
+    marketIds: [...p.marketIds],
+    markets: p.marketIds.map((id) => marketName.get(id) ?? id),
+    mine: p.createdBy?.id === ctx.user.id,
+  }));
+  return marketDeskView(current, previous, plans);
 }
 
 async function channelSheet(ctx: SignedInContext): Promise<ChannelSheet> {
@@ -123,7 +93,7 @@ export const dashboardRoutes = [
     path: "/api/dashboards/status",
     access: signedIn(markets.unscoped),
     handler: async ({ db, runs: service, dashboards }): Promise<DashboardStatus> => {
-      const { current: currentId } = await publishedRunIds(db);
+      const { current: currentId } = (await dashboards.snapshot()).published;
       const current = currentId ? await dashboards.runRecord(currentId, currentId) : null;
       return {
         current: current ? { runId: current.id, fittedAt: current.finishedAt, publishedAt: current.publication!.at, trustworthy: current.trust.trustworthy } : null,
