@@ -15,6 +15,7 @@ import { runRoutes } from "./runs";
 import { planRoutes } from "./plans";
 import { peopleRoutes } from "./people";
 import { outboxRoutes } from "./outbox";
+import { reportRoutes } from "./reports";
 import { uploadRoutes } from "./uploads";
 
 export const routeTable: readonly Route[] = [
@@ -34,4 +35,5 @@ export const routeTable: readonly Route[] = [
   ...planRoutes,
   ...peopleRoutes,
   ...outboxRoutes,
+  ...reportRoutes,
 ];
