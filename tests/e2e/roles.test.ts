@@ -73,8 +73,10 @@ describe("market manager", () => {
     await page.goto(`${server.baseUrl}/market-desk`);
     const picker = page.getByRole("combobox", { name: "Market" });
     await picker.waitFor();
-    const options = await picker.locator("option").allTextContents();
+    // Each of their markets, after the choice of both together.
+    const options = await picker.locator("option:not([value=all])").allTextContents();
     expect(options.sort()).toEqual(marketNames(demoUsers.southManager.markets).sort());
+    expect(await picker.inputValue()).toBe("all");
   });
 });
 

@@ -28,3 +28,29 @@ export async function portfolioGridMarkets(page: Page): Promise<string[]> {
 export async function headingText(page: Page): Promise<string> {
   return (await page.getByRole("heading", { level: 1 }).first().textContent())?.trim() ?? "";
 }
+
+/** GET a JSON route of the API from inside the page, with the page's session (what the screen itself may read). */
+export async function fetchFromPage<T>(page: Page, url: string): Promise<T> {
+  const result = await page.evaluate(async (target) => {
+    const response = await fetch(target, { headers: { Accept: "application/json" } });
+    return { status: response.status, body: (await response.text()) as string };
+  }, url);
+  if (result.status !== 200) throw new Error(`GET ${url} answered ${result.status}: ${result.body.slice(0, 300)}`);
+  return JSON.parse(result.body) as T;
+}
+
+/** GET a text route (a CSV export) from inside the page; returns status and body. */
+export async function fetchTextFromPage(page: Page, url: string): Promise<{ status: number; body: string }> {
+  return page.evaluate(async (target) => {
+    const response = await fetch(target);
+    return { status: response.status, body: await response.text() };
+  }, url);
+}
+
+/** Every piece of text the page holds, including screen-reader tables, options and titles. */
+export async function allPageText(page: Page): Promise<string> {
+  return page.evaluate(() => {
+    const titles = [...document.querySelectorAll("[title],[aria-label]")].map((node) => `${node.getAttribute("title") ?? ""} ${node.getAttribute("aria-label") ?? ""}`);
+    return `${document.title}\n${document.body.textContent ?? ""}\n${titles.join("\n")}`;
+  });
+}

@@ -20,9 +20,9 @@ export function RunStamp({ run, lead = "Numbers on this screen come from" }: Run
   return (
     <section
       aria-label="Published run"
-      className="mb-6 flex flex-wrap items-start justify-between gap-x-6 gap-y-2 rounded-lg border border-line bg-surface px-4 py-3 shadow-card"
+      className="mb-6 flex items-start justify-between gap-x-6 rounded-lg border border-line bg-surface px-4 py-3 shadow-card"
     >
-      <div className="min-w-0 text-small text-ink-800">
+      <div className="min-w-0 flex-1 text-small text-ink-800">
         <p>
           {lead} the current published fit, <strong className="font-semibold text-ink-950">{runLabel(run)}</strong>.
         </p>
@@ -37,11 +37,11 @@ export function RunStamp({ run, lead = "Numbers on this screen come from" }: Run
           ) : null}
         </p>
       </div>
-      <div className="flex flex-col items-end gap-1">
+      <div className="flex w-72 shrink-0 flex-col items-start gap-1">
         <TrustMark state={state} size="md" publishReason={run.publication?.reason} />
         {state === "untrustworthy" && run.trust.reasons.length > 0 ? (
           <details className="max-w-md text-caption text-ink-700">
-            <summary className="cursor-pointer text-right">Why it is not trustworthy</summary>
+            <summary className="cursor-pointer font-medium text-stream-700">Why it is not trustworthy</summary>
             <ul className="mt-1 list-disc space-y-1 pl-4">
               {run.trust.reasons.map((reason) => (
                 <li key={reason}>{reason}</li>

@@ -1,5 +1,6 @@
 import type { Flag, MarketDesk } from "@tributary/contracts";
 import { DataTable, type DataTableColumn } from "../../../components/data-table/data-table";
+import { FlagBadge } from "../../../components/estimate/flag-badge";
 import { ShrinkageMark } from "../../../components/estimate/shrinkage-mark";
 import { formatCac, formatChance, formatMoney } from "../../../lib/format";
 import { marketDeskCsvHref } from "../api/get-market-desk";
@@ -14,7 +15,7 @@ function columns(currency: string, flagsById: Map<string, Flag>, oneMarket: bool
     { id: "brand", header: "Brand", value: (row) => row.brand },
     // With one market shown, the market is in the table's title (and still in the export).
     { id: "market", header: "Market", value: (row) => row.market, csvOnly: oneMarket },
-    { id: "channel", header: "Channel", value: (row) => row.channelName },
+    { id: "channel", header: "Channel", value: (row) => row.channelName, cell: (row) => <span className="whitespace-nowrap">{row.channelName}</span> },
     { id: "median", header: "Median CAC", value: (row) => (row.hasSpend ? money(row.cac.q50) : null), cell: (row) => (row.hasSpend ? formatCac(row.cac.q50, currency) : "no spend"), align: "end" },
     {
       id: "interval",
@@ -24,8 +25,8 @@ function columns(currency: string, flagsById: Map<string, Flag>, oneMarket: bool
       align: "end",
       sortable: false,
     },
-    { id: "average", header: "Recent average CAC", value: (row) => money(row.cacAverage?.q50), cell: (row) => (row.cacAverage ? formatCac(row.cacAverage.q50, currency) : "–"), align: "end" },
-    { id: "spend", header: "Weekly spend now", value: (row) => Math.round(row.currentWeeklySpend), cell: (row) => formatMoney(row.currentWeeklySpend, currency), align: "end" },
+    { id: "average", header: "Recent avg. CAC", value: (row) => money(row.cacAverage?.q50), cell: (row) => (row.cacAverage ? formatCac(row.cacAverage.q50, currency) : "–"), align: "end" },
+    { id: "spend", header: "Spend a week", value: (row) => Math.round(row.currentWeeklySpend), cell: (row) => formatMoney(row.currentWeeklySpend, currency), align: "end" },
     {
       id: "profit",
       header: "Chance of profit",
@@ -44,6 +45,11 @@ function columns(currency: string, flagsById: Map<string, Flag>, oneMarket: bool
       id: "flags",
       header: "Flags",
       value: (row) => row.flagIds.map((id) => flagsById.get(id)?.kind).filter(Boolean).join("; ") || null,
+      cell: (row) => (
+        <span className="flex gap-1">
+          {row.flagIds.map((id) => flagsById.get(id)).map((flag) => (flag ? <FlagBadge key={flag.id} kind={flag.kind} compact /> : null))}
+        </span>
+      ),
       sortable: false,
     },
   ];
@@ -59,7 +65,7 @@ export function EstimatesTable({ desk, marketId, marketNames, flagsById }: Estim
     <DataTable
       caption={`Brands × channels in ${marketNames}`}
       rows={rows}
-      columns={columns(desk.currency, flagsById, marketId !== null)}
+      columns={columns(desk.currency, flagsById, new Set(desk.cells.map((cell) => cell.marketId)).size <= 1)}
       rowKey={(row) => `${row.cellId}|${row.channel}`}
       csvFileName="market-desk-estimates.csv"
       csvHref={marketDeskCsvHref("estimates", marketId)}

@@ -103,7 +103,8 @@ export function EstimateGrid({ map, cellHref }: EstimateGridProps) {
   const flagsById = new Map(map.flags.map((flag) => [flag.id, flag]));
   const domain = gridDomain(map);
   return (
-    <div className="overflow-x-auto rounded-lg border border-line bg-surface shadow-card">
+    // With few markets the columns keep a readable width instead of stretching across the page.
+    <div className="overflow-x-auto rounded-lg border border-line bg-surface shadow-card" style={{ maxWidth: `${9 + map.markets.length * 14}rem` }}>
       <table className="w-full table-fixed border-collapse text-small">
         <caption className="border-b border-line px-4 py-3 text-left">
           <span className="block text-body font-semibold text-ink-900">Brands × markets</span>

@@ -12,7 +12,7 @@ import { inputClass } from "../../../components/ui/field";
 import { LoadingState } from "../../../components/ui/loading-state";
 import { ModelCaution } from "../../../components/ui/model-caution";
 import { PageHeader } from "../../../components/ui/page-header";
-import { formatCac, formatChance, formatWeek } from "../../../lib/format";
+import { formatCac, formatChance } from "../../../lib/format";
 import { portfolioMapCsvHref, usePortfolioMap } from "../api/get-portfolio-map";
 import { EstimateGrid } from "./estimate-grid";
 import { PortfolioGrid } from "./portfolio-grid";
@@ -38,7 +38,8 @@ function cellColumns(map: PortfolioMapData): DataTableColumn<PortfolioMapCell>[]
   const money = (value: number | null | undefined) => (value === null || value === undefined ? null : Number(value.toPrecision(4)));
   return [
     { id: "brand", header: "Brand", value: (row) => row.brand },
-    { id: "market", header: "Market", value: (row) => row.market },
+    // With one market, the market is in every row of the grid above (and still in the export).
+    { id: "market", header: "Market", value: (row) => row.market, csvOnly: map.markets.length === 1 },
     { id: "weeks", header: "Weeks of data", value: (row) => row.weeks, align: "end" },
     { id: "median", header: "Median CAC", value: (row) => money(row.cac?.q50), cell: (row) => (row.cac ? formatCac(row.cac.q50, map.currency) : "no spend"), align: "end" },
     {
@@ -81,13 +82,13 @@ function cellColumns(map: PortfolioMapData): DataTableColumn<PortfolioMapCell>[]
       cell: (row) => (
         <span className="flex flex-wrap gap-1">
           {flagsOf(row, flagsById).map((flag) => (
-            <FlagBadge key={flag.id} kind={flag.kind} channel={map.channel === null ? flag.channelName : undefined} />
+            <FlagBadge key={flag.id} kind={flag.kind} channel={map.channel === null ? flag.channelName : undefined} compact />
           ))}
         </span>
       ),
       sortable: false,
     },
-    { id: "lastWeek", header: "Last week", value: (row) => row.lastWeek, cell: (row) => formatWeek(row.lastWeek) },
+    { id: "lastWeek", header: "Last week", value: (row) => row.lastWeek, csvOnly: true },
   ];
 }
 
