@@ -12,7 +12,6 @@ import {
 import {
   applyScenario,
   budgetSplit,
-  budgetSplitPlan,
   comparePlans,
   currentPlan,
   forecastPlan,
@@ -242,4 +241,3 @@ export function forecastOf(set: DrawSet, plan: SpendPlan, seed: number): PlanFor
   return checked("The plan cannot be forecast", () => forecastPlan(set, plan, { seed }));
 }
 
-export { budgetSplitPlan };
