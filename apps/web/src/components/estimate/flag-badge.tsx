@@ -2,6 +2,13 @@
 // Each kind has its own small shape as well as its words, so it reads without colour.
 import { flagKindLabels, type FlagKind } from "@tributary/contracts";
 
+/** Few words for tight places (a grid cell, a chart's margin). */
+export const flagKindShortLabels: Record<FlagKind, string> = {
+  data_problem: "data problem",
+  real_difference: "real difference",
+  needs_lift_test: "lift test",
+};
+
 const tones: Record<FlagKind, string> = {
   data_problem: "border-alert-700/40 bg-alert-100 text-alert-700",
   real_difference: "border-stream-600/40 bg-stream-50 text-stream-800",
@@ -40,19 +47,22 @@ type FlagBadgeProps = {
   title?: string;
   /** Only the glyph (the words go into the accessible name). */
   compact?: boolean;
+  /** The glyph and a word or two: the channel when given, else the kind (the full words go into the accessible name). */
+  short?: boolean;
 };
 
-export function FlagBadge({ kind, channel, title, compact = false }: FlagBadgeProps) {
+export function FlagBadge({ kind, channel, title, compact = false, short = false }: FlagBadgeProps) {
   const words = `Flagged: ${flagKindLabels[kind].toLowerCase()}${channel ? ` (${channel})` : ""}`;
+  const labelled = compact || short;
   return (
     <span
-      className={`inline-flex items-center gap-1 rounded-sm border px-1.5 py-px text-caption font-medium ${tones[kind]}`}
+      className={`inline-flex items-center gap-1 whitespace-nowrap rounded-sm border px-1.5 py-px text-caption font-medium ${tones[kind]}`}
       title={title ?? words}
       data-flag={kind}
-      {...(compact ? { role: "img", "aria-label": words } : {})}
+      {...(labelled ? { role: "img", "aria-label": words } : {})}
     >
       <FlagGlyph kind={kind} />
-      {compact ? null : <span>{words}</span>}
+      {compact ? null : short ? <span aria-hidden="true">{channel ?? flagKindShortLabels[kind]}</span> : <span>{words}</span>}
     </span>
   );
 }

@@ -1,9 +1,10 @@
 import * as Plot from "@observablehq/plot";
-import { flagKindLabels, type Flag, type PoolingReview } from "@tributary/contracts";
+import type { Flag, PoolingReview } from "@tributary/contracts";
 import { useCallback, useMemo } from "react";
 import { compactNumber } from "../../../components/chart/axis-format";
 import { seriesColour, tokenColour } from "../../../components/chart/chart-colours";
 import { PlotFigure } from "../../../components/chart/plot-figure";
+import { flagKindShortLabels } from "../../../components/estimate/flag-badge";
 
 type ReviewRow = PoolingReview["rows"][number];
 
@@ -36,7 +37,7 @@ export function ShrinkageArrows({ rows, channelOrder, flagsById, currency }: Shr
         note: [
           percent(row.pooling.shrinkage),
           row.outlier ? "outlier?" : null,
-          ...row.flagIds.map((id) => flagsById.get(id)).filter((flag): flag is Flag => flag !== undefined).map((flag) => flagKindLabels[flag.kind].toLowerCase()),
+          ...row.flagIds.map((id) => flagsById.get(id)).filter((flag): flag is Flag => flag !== undefined).map((flag) => `flag: ${flagKindShortLabels[flag.kind]}`),
         ]
           .filter(Boolean)
           .join(" · "),
@@ -52,7 +53,7 @@ export function ShrinkageArrows({ rows, channelOrder, flagsById, currency }: Shr
         width,
         height: 60 + data.length * 17,
         marginLeft: 230,
-        marginRight: 150,
+        marginRight: 190,
         marginBottom: 40,
         style: { fontSize: "11px" },
         x: { type: "log", domain: [Math.min(...values) / 1.2, Math.max(...values) * 1.2], label: `Low-spend cost per new customer (${currency}, log scale) →`, grid: true, tickFormat: compactNumber },
@@ -62,7 +63,7 @@ export function ShrinkageArrows({ rows, channelOrder, flagsById, currency }: Shr
           Plot.arrow(withArrow, { y1: "key", y2: "key", x1: "from", x2: "to", stroke: "colour", strokeWidth: (d: { outlier: boolean }) => (d.outlier ? 2.6 : 1.6), headLength: 7, insetStart: 3 }),
           Plot.dot(data.filter((d) => d.from === null), { y: "key", x: "to", r: 3, fill: "colour" }),
           Plot.dot(data.filter((d) => d.group !== null), { y: "key", x: "group", symbol: "diamond", r: 3.5, stroke: tokenColour("ink-900"), fill: "none", strokeWidth: 1.2 }),
-          Plot.text(data, { y: "key", frameAnchor: "right", dx: 146, textAnchor: "end", text: "note", fill: (d: { outlier: boolean }) => (d.outlier ? tokenColour("caution-700") : tokenColour("ink-700")) }),
+          Plot.text(data, { y: "key", frameAnchor: "right", dx: 186, textAnchor: "end", text: "note", fill: (d: { outlier: boolean }) => (d.outlier ? tokenColour("caution-700") : tokenColour("ink-700")) }),
         ],
       });
     },

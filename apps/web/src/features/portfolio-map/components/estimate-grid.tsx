@@ -36,7 +36,7 @@ function CellFlags({ cell, flagsById, showChannel }: { cell: PortfolioMapCell; f
           key={flag.id}
           kind={flag.kind}
           channel={showChannel ? flag.channelName : undefined}
-          compact
+          short
           title={`${flag.channelName}: ${flag.note}${flag.createdBy ? ` (${flag.createdBy.name})` : ""}`}
         />
       ))}
@@ -60,7 +60,7 @@ function EstimateCell({ cell, map, domain, flagsById, href }: { cell: PortfolioM
   const { cac } = cell;
   return (
     <td className="border-b border-l border-line p-0 align-top" data-cell={`${cell.brand}|${cell.market}`}>
-      <Link to={href} className="group block h-full px-3 py-2.5 hover:bg-stream-50 focus-visible:bg-stream-50">
+      <Link to={href} className="group block h-full px-2.5 py-2.5 hover:bg-stream-50 focus-visible:bg-stream-50">
         <span className="flex items-baseline justify-between gap-2">
           <span className="text-body font-semibold tabular-nums text-ink-950 group-hover:text-stream-800" data-value="median">
             {formatCac(cac.q50, map.currency)}
@@ -86,11 +86,11 @@ function EstimateCell({ cell, map, domain, flagsById, href }: { cell: PortfolioM
           </span>
         )}
         <span className="mt-1 flex items-center justify-between gap-1 text-caption text-ink-600">
-          <span className="tabular-nums">{formatWeeks(cell.weeks)}</span>
+          <span className="whitespace-nowrap tabular-nums">{formatWeeks(cell.weeks)}</span>
           <ShrinkageMark shrinkage={cell.pooling.shrinkage} label={moveLabel(cell, map)} />
         </span>
       </Link>
-      <span className="block px-3 pb-2 empty:hidden">
+      <span className="block px-2.5 pb-2 empty:hidden">
         <CellFlags cell={cell} flagsById={flagsById} showChannel={map.channel === null} />
       </span>
     </td>
@@ -104,7 +104,7 @@ export function EstimateGrid({ map, cellHref }: EstimateGridProps) {
   const domain = gridDomain(map);
   return (
     // With few markets the columns keep a readable width instead of stretching across the page.
-    <div className="overflow-x-auto rounded-lg border border-line bg-surface shadow-card" style={{ maxWidth: `${9 + map.markets.length * 14}rem` }}>
+    <div className="overflow-x-auto rounded-lg border border-line bg-surface shadow-card" style={{ maxWidth: `${8 + map.markets.length * 14}rem` }}>
       <table className="w-full table-fixed border-collapse text-small">
         <caption className="border-b border-line px-4 py-3 text-left">
           <span className="block text-body font-semibold text-ink-900">Brands × markets</span>
@@ -116,11 +116,11 @@ export function EstimateGrid({ map, cellHref }: EstimateGridProps) {
         </caption>
         <thead>
           <tr className="bg-ink-50">
-            <th scope="col" className="w-36 border-b border-line px-4 py-2 text-left font-semibold text-ink-800">
+            <th scope="col" className="w-32 border-b border-line px-3 py-2 text-left font-semibold text-ink-800">
               Brand
             </th>
             {map.markets.map((market) => (
-              <th key={market.id} scope="col" className="border-b border-l border-line px-3 py-2 text-left font-semibold text-ink-800">
+              <th key={market.id} scope="col" className="border-b border-l border-line px-2.5 py-2 text-left font-semibold text-ink-800">
                 {market.name}
               </th>
             ))}
@@ -129,7 +129,7 @@ export function EstimateGrid({ map, cellHref }: EstimateGridProps) {
         <tbody>
           {map.brands.map((brand) => (
             <tr key={brand.id}>
-              <th scope="row" className="border-b border-line px-4 py-3 text-left align-top font-normal">
+              <th scope="row" className="border-b border-line px-3 py-3 text-left align-top font-normal">
                 <span className="block font-semibold text-ink-900">{brand.name}</span>
                 <span className="block text-caption text-ink-600">
                   {brand.customerValue === null ? "Customer value not set" : `${formatMoney(brand.customerValue, map.currency)} per customer`}

@@ -40,7 +40,7 @@ function cellColumns(map: PortfolioMapData): DataTableColumn<PortfolioMapCell>[]
     { id: "brand", header: "Brand", value: (row) => row.brand },
     // With one market, the market is in every row of the grid above (and still in the export).
     { id: "market", header: "Market", value: (row) => row.market, csvOnly: map.markets.length === 1 },
-    { id: "weeks", header: "Weeks of data", value: (row) => row.weeks, align: "end" },
+    { id: "weeks", header: "Weeks", value: (row) => row.weeks, align: "end" },
     { id: "median", header: "Median CAC", value: (row) => money(row.cac?.q50), cell: (row) => (row.cac ? formatCac(row.cac.q50, map.currency) : "no spend"), align: "end" },
     {
       id: "interval",
@@ -82,7 +82,7 @@ function cellColumns(map: PortfolioMapData): DataTableColumn<PortfolioMapCell>[]
       cell: (row) => (
         <span className="flex flex-wrap gap-1">
           {flagsOf(row, flagsById).map((flag) => (
-            <FlagBadge key={flag.id} kind={flag.kind} channel={map.channel === null ? flag.channelName : undefined} compact />
+            <FlagBadge key={flag.id} kind={flag.kind} channel={map.channel === null ? flag.channelName : undefined} short />
           ))}
         </span>
       ),
