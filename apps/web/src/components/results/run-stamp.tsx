@@ -24,7 +24,8 @@ export function RunStamp({ run, lead = "Numbers on this screen come from" }: Run
     >
       <div className="min-w-0 flex-1 text-small text-ink-800">
         <p>
-          {lead} the current published fit, <strong className="font-semibold text-ink-950">{runLabel(run)}</strong>.
+          {lead} {run.current ? "the current published fit" : "a run that is not the current published fit"},{" "}
+          <strong className="font-semibold text-ink-950">{runLabel(run)}</strong>.
         </p>
         <p className="text-caption text-ink-600">
           {run.finishedAt ? <>Fitted {formatDateTime(run.finishedAt)}</> : <>Started {formatDateTime(run.createdAt)}</>}

@@ -216,7 +216,7 @@ export function BrandComparison({ scopedToMarkets, channelSheetHref, noPublished
         </EmptyState>
       ) : (
         <div className="space-y-5">
-          <EstimateKey shrinkage={false} />
+          <EstimateKey />
           <div className="space-y-8">
             {shown.map(({ reference, lines }) => (
               <section key={reference.channel} aria-label={`${reference.name}: brands compared`} className="rounded-lg border border-line bg-surface p-5 shadow-card">

@@ -49,7 +49,6 @@ export function PoolingFactors({ review, runId }: { review: PoolingReview; runId
         rowKey={(row) => row.level}
         csvFileName="pooling-factors.csv"
         csvHref={poolingReviewCsvHref("pooling-factors", runId)}
-        filterable={false}
         compact
       />
       <p className="max-w-3xl text-caption text-ink-600">
