@@ -414,6 +414,17 @@ describe("flags", () => {
     expect(sheet.flags[0]!.runId).toBe(publishedRunId);
   });
 
+  it("the pooling review reads any finished run by id, the current one by default", async () => {
+    const current = poolingReviewSchema.parse((await analyst.get("/api/dashboards/pooling-review").expect(200)).body);
+    expect(current.run.id).toBe(secondRunId);
+    const older = poolingReviewSchema.parse((await analyst.get(`/api/dashboards/pooling-review?run=${publishedRunId}`).expect(200)).body);
+    expect(older.run).toMatchObject({ id: publishedRunId, current: false });
+    expect(older.rows.map((r) => r.pooled.q50)).not.toEqual(current.rows.map((r) => r.pooled.q50));
+    // Flags belong to cells, so an older run's review shows today's flags too.
+    expect(older.flags.map((f) => f.id)).toContain(flagId);
+    await analyst.get("/api/dashboards/pooling-review?run=no-such-run").expect(404);
+  });
+
   it("a new flag on the same cell × channel replaces the active one; clearing keeps the history", async () => {
     const second = flagSchema.parse(
       (await analyst.post("/api/flags").send({ cellId: plumriseVeltria(), channel: "social", kind: "real_difference", note: "The lift test agreed: social is cheaper here" }).expect(201)).body,
