@@ -151,8 +151,12 @@ export async function resumeDemoFit(deps: DemoFitDeps, mode: DemoFitMode): Promi
   return { action: "none", runId };
 }
 
-/** The demo's first fit as GET /api/dashboards/status reports it; null once a run is published or without one. */
-export async function demoFitStatus(deps: DemoFitDeps, published: boolean): Promise<DashboardStatus["firstFit"]> {
+/**
+ * The demo's first fit as GET /api/dashboards/status reports it; null once a run is
+ * published or without one. A failure reason may name any cell, so it is given only to
+ * those who see every market (`seesAllMarkets`).
+ */
+export async function demoFitStatus(deps: DemoFitDeps, published: boolean, seesAllMarkets = true): Promise<DashboardStatus["firstFit"]> {
   if (published) return null;
   const runId = await latestDemoFitRunId(deps.db);
   if (!runId) return null;
@@ -167,7 +171,9 @@ export async function demoFitStatus(deps: DemoFitDeps, published: boolean): Prom
         : run.status === "succeeded"
           ? "The first fit has finished and is being published"
           : run.status === "failed"
-            ? `The first fit failed: ${run.failureReason ?? "no reason was given"}`
+            ? seesAllMarkets
+              ? `The first fit failed: ${run.failureReason ?? "no reason was given"}`
+              : "The first fit failed; an analyst can fit the data again on the Runs screen"
             : run.status === "cancelled"
               ? "The first fit was cancelled; start a fit on the Runs screen"
               : "The first fit was interrupted when the server stopped; it starts again at the next start of the server";

@@ -5,6 +5,7 @@
 // narrows the run's cells to the viewer's markets in one place (exports included).
 import { eq } from "drizzle-orm";
 import type { BrandComparison, ChannelSheet, DashboardStatus, MarketDesk, PoolingReview, PortfolioMap } from "@tributary/contracts";
+import { seesAllMarkets } from "../access/market-scope";
 import { defineRoute, markets, signedIn, type SignedInContext } from "../access/route-table";
 import { cells } from "../db/schema";
 import { Conflict } from "../http/errors";
@@ -92,12 +93,12 @@ export const dashboardRoutes = [
     method: "get",
     path: "/api/dashboards/status",
     access: signedIn(markets.unscoped),
-    handler: async ({ db, runs: service, dashboards }): Promise<DashboardStatus> => {
+    handler: async ({ db, user, runs: service, dashboards }): Promise<DashboardStatus> => {
       const { current: currentId } = (await dashboards.snapshot()).published;
       const current = currentId ? await dashboards.runRecord(currentId, currentId) : null;
       return {
         current: current ? { runId: current.id, fittedAt: current.finishedAt, publishedAt: current.publication!.at, trustworthy: current.trust.trustworthy } : null,
-        firstFit: await demoFitStatus({ db, runs: service }, current !== null),
+        firstFit: await demoFitStatus({ db, runs: service }, current !== null, seesAllMarkets(user)),
       };
     },
   }),
