@@ -7,6 +7,9 @@ import { useInvitation } from "../../features/auth/api/get-invitation";
 import { AcceptInvitationForm } from "../../features/auth/components/accept-invitation-form";
 import { ApiError } from "../../lib/api-client";
 
+/** A message as a sentence, with its full stop. */
+const sentence = (text: string) => (/[.!?]$/.test(text.trim()) ? text.trim() : `${text.trim()}.`);
+
 /** The public page an invitation e-mail links to: name and password, then straight into the app. */
 export default function InviteRoute() {
   const { token = "" } = useParams();
@@ -24,7 +27,7 @@ export default function InviteRoute() {
         <div className="space-y-4">
           <div role="alert" className="rounded-md border border-alert-700/30 bg-alert-100 px-3 py-2 text-small text-alert-700">
             {failure instanceof ApiError && (failure.status === 404 || failure.status === 409 || failure.status === 429)
-              ? failure.message
+              ? sentence(failure.message)
               : "The invitation could not be checked. Please try again in a moment."}
           </div>
           <p className="text-small text-ink-700">

@@ -216,7 +216,7 @@ function SplitWorkspace({ drawSet, user, portfolio, runner }: { drawSet: Decoded
           Saved budget splits
         </h2>
         <SplitPlans currency={drawSet.currency} openId={openPlanId} onOpen={setOpenPlanId} />
-        {openPlanId ? <SavedSplit key={openPlanId} planId={openPlanId} currency={drawSet.currency} onClose={() => setOpenPlanId(null)} /> : null}
+        {openPlanId ? <SavedSplit key={openPlanId} planId={openPlanId} currency={drawSet.currency} user={user} onClose={() => setOpenPlanId(null)} /> : null}
       </section>
       {user.role === "admin" || user.role === "portfolio_lead" ? null : (
         <p className="text-caption text-ink-600">Portfolio leads approve or reject submitted splits.</p>

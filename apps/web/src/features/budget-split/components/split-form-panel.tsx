@@ -144,7 +144,7 @@ export function SplitFormPanel({ state, onChange, cells, channels, currency, cus
         {field("recentWeeks", "Recent weeks for the current spend", "The current allocation averages these last data weeks.", "w-24")}
       </div>
 
-      <div className="grid gap-6 lg:grid-cols-2">
+      <div className="grid items-start gap-6 lg:grid-cols-2">
         <BoundsTable
           caption={`Bounds per channel, over the horizon (${currency})`}
           rows={channels.map((channel) => ({ key: channel, label: channel }))}

@@ -1,4 +1,13 @@
-import { PLAN_DECISION_COMMENT_MIN_LENGTH, planBounds, planStatusLabels, type BudgetSplitPlan, type PlanStatus, type PlanSummary } from "@tributary/contracts";
+import {
+  PLAN_DECISION_COMMENT_MIN_LENGTH,
+  planBounds,
+  planDeciderRoles,
+  planStatusLabels,
+  type BudgetSplitPlan,
+  type CurrentUser,
+  type PlanStatus,
+  type PlanSummary,
+} from "@tributary/contracts";
 import { useQueryClient } from "@tanstack/react-query";
 import { useId, useState } from "react";
 import { DataTable, type DataTableColumn } from "../../../components/data-table/data-table";
@@ -81,7 +90,7 @@ function DecisionForm({ plan }: { plan: BudgetSplitPlan }) {
 }
 
 /** One saved split: its status, what may be done with it now, and the server's numbers. */
-export function SavedSplit({ planId, currency, onClose }: { planId: string; currency: string; onClose: () => void }) {
+export function SavedSplit({ planId, currency, user, onClose }: { planId: string; currency: string; user: Pick<CurrentUser, "id" | "role">; onClose: () => void }) {
   const queryClient = useQueryClient();
   const query = usePlan(planId);
   const submit = useSubmitPlan();
@@ -97,8 +106,8 @@ export function SavedSplit({ planId, currency, onClose }: { planId: string; curr
   const actionError = submit.error ?? withdraw.error ?? remove.error;
   return (
     <section aria-label={`Plan ${plan.name}`} className="space-y-4 rounded-lg border border-line bg-surface p-5 shadow-card">
-      <div className="flex flex-wrap items-start justify-between gap-3">
-        <div>
+      <div className="flex items-start justify-between gap-3">
+        <div className="min-w-0 flex-1">
           <h3 className="text-heading font-semibold text-ink-900">
             {plan.name} <PlanStatusBadge status={plan.status} />
           </h3>
@@ -166,7 +175,13 @@ export function SavedSplit({ planId, currency, onClose }: { planId: string; curr
           )
         ) : null}
       </div>
-      {plan.status === "submitted" && !plan.can.decide ? <p className="text-small text-ink-700">Waiting for a portfolio lead to approve or reject it.</p> : null}
+      {plan.status === "submitted" && !plan.can.decide ? (
+        <p className="text-small text-ink-700">
+          {plan.createdBy?.id === user.id && (planDeciderRoles as readonly string[]).includes(user.role)
+            ? "Waiting for another portfolio lead or an admin to approve or reject it: nobody decides on their own plan."
+            : "Waiting for a portfolio lead to approve or reject it."}
+        </p>
+      ) : null}
       {plan.can.decide ? <DecisionForm plan={plan} /> : null}
       {actionError ? (
         <p role="alert" className="text-small font-medium text-alert-700">
@@ -184,9 +199,14 @@ export function SplitPlans({ currency, openId, onOpen }: { currency: string; ope
   if (plans.isPending) return <LoadingState label="Loading saved splits…" />;
   if (plans.isError) return <ErrorState title="Saved splits could not be loaded" message={plans.error.message} onRetry={() => void plans.refetch()} />;
   const columns: DataTableColumn<PlanSummary>[] = [
-    { id: "name", header: "Plan", value: (plan) => plan.name, cell: (plan) => <span className="font-medium">{plan.name}</span> },
+    { id: "name", header: "Plan", value: (plan) => plan.name, cell: (plan) => <span className="block min-w-40 font-medium">{plan.name}</span> },
     { id: "status", header: "Status", value: (plan) => planStatusLabels[plan.status], cell: (plan) => <PlanStatusBadge status={plan.status} /> },
-    { id: "markets", header: "Markets", value: (plan) => plan.markets.map((m) => m.name).join(", ") },
+    {
+      id: "markets",
+      header: "Markets",
+      value: (plan) => plan.markets.map((m) => m.name).join(", "),
+      cell: (plan) => (plan.markets.length > 2 ? <span title={plan.markets.map((m) => m.name).join(", ")}>{plan.markets.length} markets</span> : plan.markets.map((m) => m.name).join(", ")),
+    },
     { id: "budget", header: "Budget", value: (plan) => Math.round(plan.spend), cell: (plan) => formatMoney(plan.spend, currency), align: "end" },
     { id: "weeks", header: "Weeks", value: (plan) => plan.horizon, align: "end" },
     {
@@ -197,7 +217,7 @@ export function SplitPlans({ currency, openId, onOpen }: { currency: string; ope
       align: "end",
     },
     { id: "by", header: "Saved by", value: (plan) => plan.createdBy?.name ?? null },
-    { id: "updated", header: "Last change", value: (plan) => plan.updatedAt, cell: (plan) => formatDateTime(plan.updatedAt) },
+    { id: "updated", header: "Last change", value: (plan) => plan.updatedAt, cell: (plan) => <span className="whitespace-nowrap">{formatDateTime(plan.updatedAt)}</span> },
     { id: "fit", header: "Fit", value: (plan) => (plan.runIsCurrent ? "current" : "older"), cell: (plan) => (plan.runIsCurrent ? "current" : <span className="text-caution-700">older</span>) },
     {
       id: "open",
@@ -205,8 +225,8 @@ export function SplitPlans({ currency, openId, onOpen }: { currency: string; ope
       value: () => null,
       sortable: false,
       cell: (plan) => (
-        <Button variant="secondary" className="px-2! py-1!" onClick={() => onOpen(plan.id)} disabled={openId === plan.id} aria-label={`Open ${plan.name}`}>
-          {openId === plan.id ? "Open below" : "Open"}
+        <Button variant="secondary" className="whitespace-nowrap px-2! py-1!" onClick={() => onOpen(plan.id)} disabled={openId === plan.id} aria-label={`Open ${plan.name}`}>
+          {openId === plan.id ? "Shown below" : "Open"}
         </Button>
       ),
     },

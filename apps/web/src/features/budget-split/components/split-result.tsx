@@ -6,6 +6,8 @@ import { AllocationChart, OutcomeHistogram } from "./split-charts";
 
 const boundLabels = { lower: "at its lower bound", upper: "at its upper bound", fixed: "fixed (lower = upper)" } as const;
 const percent = (share: number) => `${formatNumber(share * 100, 2)} %`;
+/** The spread in per cent; below a millionth it is rounding noise of the solver and is said so. */
+const spreadText = (spread: number) => (spread < 1e-6 ? "below 0.0001 %" : percent(spread));
 const summary = (s: { q05: number; q50: number; q95: number }, signed = false) => {
   const f = (x: number) => (signed && x > 0 ? `+${formatNumber(x, 3)}` : formatNumber(x, 3));
   return `${f(s.q50)} (90 %: ${f(s.q05)} to ${f(s.q95)})`;
@@ -38,7 +40,7 @@ export function MarginalReturnCheck({ view, currency }: { view: SplitView; curre
           </div>
           <div>
             <dt className="text-ink-600">Spread among them</dt>
-            <dd className={`text-heading font-semibold ${check.equal ? "text-ok-700" : "text-caution-700"}`}>{percent(check.spread)}</dd>
+            <dd className={`text-heading font-semibold ${check.equal ? "text-ok-700" : "text-caution-700"}`}>{spreadText(check.spread)}</dd>
             <dd className="text-caption text-ink-600">(largest − smallest) / mean, over {check.freeLines} {check.freeLines === 1 ? "line" : "lines"}</dd>
           </div>
           <div>
@@ -69,7 +71,7 @@ const lineColumns = (currency: string, objective: SplitView["objective"]): DataT
     value: (line) => Math.round(line.allocation - line.current),
     cell: (line) => {
       const change = line.allocation - line.current;
-      return <span className={change < 0 ? "text-alert-700" : change > 0 ? "text-ok-700" : ""}>{`${change > 0 ? "+" : ""}${formatMoney(change, currency)}`}</span>;
+      return <span className={`whitespace-nowrap ${change < 0 ? "text-alert-700" : change > 0 ? "text-ok-700" : ""}`}>{`${change > 0 ? "+" : ""}${formatMoney(change, currency)}`}</span>;
     },
     align: "end",
   },
@@ -103,6 +105,38 @@ const lineColumns = (currency: string, objective: SplitView["objective"]): DataT
   { id: "customers", header: "Expected customers", value: (line) => Math.round(line.expectedCustomers), cell: (line) => formatNumber(line.expectedCustomers, 4), align: "end" },
   { id: "beyond", header: "Above any spend in the data", value: (line) => (line.beyondObservedSpend ? "yes" : "no"), cell: (line) => (line.beyondObservedSpend ? <span className="text-caution-700">yes: extrapolated</span> : <span className="text-ink-500">no</span>) },
 ];
+
+function boundWords(line: SplitLineView, currency: string): string {
+  if (line.activeBound === "lower" && line.lower === 0) return "gets nothing";
+  return `${boundLabels[line.activeBound!]} (${formatMoney(line.allocation, currency)})`;
+}
+
+/** "12 of 70 lines sit at a bound: 9 get nothing, 3 at their upper bound." */
+export function boundSummary(atBounds: readonly SplitLineView[], total: number): string {
+  const nothing = atBounds.filter((line) => line.activeBound === "lower" && line.lower === 0).length;
+  const lower = atBounds.filter((line) => line.activeBound === "lower" && line.lower > 0).length;
+  const upper = atBounds.filter((line) => line.activeBound === "upper").length;
+  const fixed = atBounds.filter((line) => line.activeBound === "fixed").length;
+  const parts = [
+    nothing ? `${nothing} ${nothing === 1 ? "gets" : "get"} nothing` : null,
+    lower ? `${lower} at ${lower === 1 ? "its" : "their"} lower bound` : null,
+    upper ? `${upper} at ${upper === 1 ? "its" : "their"} upper bound` : null,
+    fixed ? `${fixed} fixed` : null,
+  ].filter(Boolean);
+  return `${atBounds.length} of ${total} lines sit at a bound: ${parts.join(", ")}. The rest share the budget at equal return.`;
+}
+
+function BoundChips({ lines, currency }: { lines: readonly SplitLineView[]; currency: string }) {
+  return (
+    <ul className="mt-2 flex flex-wrap gap-2 text-small">
+      {lines.map((line) => (
+        <li key={line.key} className="rounded-md border border-silt-500/40 bg-silt-100 px-2 py-1 text-ink-900">
+          {line.channel} in {line.brand} {line.market}: {boundWords(line, currency)}
+        </li>
+      ))}
+    </ul>
+  );
+}
 
 /** A split: its headline numbers, the optimality check, the lines at bounds, the allocation and the outcome's distribution. */
 export function SplitResult({ view, currency, title = "Split result" }: { view: SplitView; currency: string; title?: string }) {
@@ -153,13 +187,17 @@ export function SplitResult({ view, currency, title = "Split result" }: { view: 
         {atBounds.length === 0 ? (
           <p className="mt-1 text-small text-ink-700">None: every line was free to move.</p>
         ) : (
-          <ul className="mt-1 flex flex-wrap gap-2 text-small">
-            {atBounds.map((line) => (
-              <li key={line.key} className="rounded-md border border-silt-500/40 bg-silt-100 px-2 py-1 text-ink-900">
-                {line.channel} in {line.brand} {line.market}: {boundLabels[line.activeBound!]} ({formatMoney(line.allocation, currency)})
-              </li>
-            ))}
-          </ul>
+          <>
+            <p className="mt-1 text-small text-ink-700">{boundSummary(atBounds, view.lines.length)}</p>
+            {atBounds.length <= 8 ? (
+              <BoundChips lines={atBounds} currency={currency} />
+            ) : (
+              <details className="mt-1">
+                <summary className="cursor-pointer text-small font-medium text-stream-700">Show the {atBounds.length} lines</summary>
+                <BoundChips lines={atBounds} currency={currency} />
+              </details>
+            )}
+          </>
         )}
       </section>
 

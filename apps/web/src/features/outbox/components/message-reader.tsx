@@ -101,7 +101,7 @@ export function MessageReader({ message, onClose }: { message: OutboxMessage; on
               sandbox=""
               referrerPolicy="no-referrer"
               srcDoc={withContentPolicy(message.html)}
-              className="h-[34rem] w-full rounded-md border border-line bg-white"
+              className="h-[28rem] w-full rounded-md border border-line bg-white"
             />
             <p className="mt-2 text-caption text-ink-600">Shown in a locked frame: scripts, forms and outside images do not run or load. Links work in the plain-text version.</p>
           </>

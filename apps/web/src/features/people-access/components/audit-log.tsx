@@ -23,11 +23,19 @@ export function detailsText(details: unknown): string {
     .join("; ");
 }
 
+/** "plan:6d54ff06-e2e3-…" as "plan 6d54ff06" (the whole target stays in the title and the export). */
+export function targetText(target: string | null): string {
+  if (!target) return "";
+  const [kind, ...rest] = target.split(":");
+  const id = rest.join(":");
+  return id ? `${kind!.replace(/_/g, " ")} ${id.length > 12 ? id.slice(0, 8) : id}` : target;
+}
+
 const columns: DataTableColumn<AuditEntry>[] = [
-  { id: "at", header: "When", value: (e) => e.at, cell: (e) => formatDateTime(e.at) },
-  { id: "who", header: "Who", value: (e) => e.user?.name ?? "system" },
-  { id: "action", header: "Action", value: (e) => actionLabel(e.action) },
-  { id: "target", header: "On", value: (e) => e.target },
+  { id: "at", header: "When", value: (e) => e.at, cell: (e) => <span className="whitespace-nowrap">{formatDateTime(e.at)}</span> },
+  { id: "who", header: "Who", value: (e) => e.user?.name ?? "system", cell: (e) => <span className="whitespace-nowrap">{e.user?.name ?? "system"}</span> },
+  { id: "action", header: "Action", value: (e) => actionLabel(e.action), cell: (e) => <span className="whitespace-nowrap">{actionLabel(e.action)}</span> },
+  { id: "target", header: "On", value: (e) => e.target, cell: (e) => <span className="whitespace-nowrap font-mono text-caption" title={e.target ?? undefined}>{targetText(e.target)}</span> },
   { id: "details", header: "Details", value: (e) => detailsText(e.details), cell: (e) => <span className="block max-w-md truncate" title={detailsText(e.details)}>{detailsText(e.details)}</span> },
 ];
 

@@ -44,7 +44,7 @@ export function InvitationsTable() {
       cell: (i) => <span className={`rounded-sm px-1.5 py-0.5 text-caption font-medium ${statusTone[i.status]}`}>{invitationStatusLabels[i.status]}</span>,
     },
     { id: "by", header: "Invited by", value: (i) => i.invitedBy?.name ?? null },
-    { id: "sent", header: "Sent", value: (i) => i.createdAt, cell: (i) => formatDateTime(i.createdAt) },
+    { id: "sent", header: "Sent", value: (i) => i.createdAt, cell: (i) => <span className="whitespace-nowrap">{formatDateTime(i.createdAt)}</span> },
     {
       id: "expires",
       header: "Link works until",
@@ -55,7 +55,7 @@ export function InvitationsTable() {
         ) : i.status === "revoked" ? (
           <span className="text-ink-700">revoked {i.revokedAt ? formatDateTime(i.revokedAt) : ""}</span>
         ) : (
-          formatDateTime(i.expiresAt)
+          <span className="whitespace-nowrap">{formatDateTime(i.expiresAt)}</span>
         ),
     },
     {

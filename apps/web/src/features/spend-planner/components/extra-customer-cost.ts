@@ -33,9 +33,3 @@ export function extraCustomerCostText(cost: Cost, currency: string): { headline:
       };
   }
 }
-
-/** Median with its 90 % interval, e.g. "1,234 (90 %: 1,100 to 1,380)". */
-export function intervalText(summary: { q05: number; q50: number; q95: number }, signed = false): string {
-  const f = (x: number) => (signed && x > 0 ? `+${formatNumber(x, 3)}` : formatNumber(x, 3));
-  return `${f(summary.q50)} (90 %: ${f(summary.q05)} to ${f(summary.q95)})`;
-}

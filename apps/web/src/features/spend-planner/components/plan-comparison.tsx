@@ -1,7 +1,9 @@
 import { DataTable, type DataTableColumn } from "../../../components/data-table/data-table";
-import { formatMoney, formatNumber } from "../../../lib/format";
+import { useId, useState } from "react";
+import { inputClass } from "../../../components/ui/field";
+import { formatMoney, formatNumber, formatWeek } from "../../../lib/format";
 import type { PlannerResult } from "../worker/use-planner";
-import { extraCustomerCostText, intervalText } from "./extra-customer-cost";
+import { extraCustomerCostText } from "./extra-customer-cost";
 
 type ComparisonRow = {
   id: string;
@@ -14,6 +16,19 @@ type ComparisonRow = {
 };
 
 const round = (x: number) => Number(x.toPrecision(4));
+
+/** A median over its 90 % interval, on two lines. */
+function IntervalCell({ summary, signed = false }: { summary: { q05: number; q50: number; q95: number }; signed?: boolean }) {
+  const f = (x: number) => (signed && x > 0 ? `+${formatNumber(x, 3)}` : formatNumber(x, 3));
+  return (
+    <span>
+      {f(summary.q50)}
+      <span className="block whitespace-nowrap text-caption text-ink-600">
+        90 %: {f(summary.q05)} to {f(summary.q95)}
+      </span>
+    </span>
+  );
+}
 
 /** The scenarios side by side against the current plan: spend, customers, and the difference with intervals. */
 export function PlanComparison({ result, currency, horizon }: { result: PlannerResult; currency: string; horizon: number }) {
@@ -53,8 +68,11 @@ export function PlanComparison({ result, currency, horizon }: { result: PlannerR
       cell: (row) => (
         <span>
           {formatNumber(row.customers.q50, 4)}
-          <span className="block text-caption text-ink-600">
-            50 %: {formatNumber(row.customers.q25, 3)}–{formatNumber(row.customers.q75, 3)} · 90 %: {formatNumber(row.customers.q05, 3)}–{formatNumber(row.customers.q95, 3)}
+          <span className="block whitespace-nowrap text-caption text-ink-600">
+            50 %: {formatNumber(row.customers.q25, 3)} to {formatNumber(row.customers.q75, 3)}
+          </span>
+          <span className="block whitespace-nowrap text-caption text-ink-600">
+            90 %: {formatNumber(row.customers.q05, 3)} to {formatNumber(row.customers.q95, 3)}
           </span>
         </span>
       ),
@@ -73,7 +91,7 @@ export function PlanComparison({ result, currency, horizon }: { result: PlannerR
       id: "extra-customers",
       header: "Extra customers (median, 90 %)",
       value: (row) => (row.extraCustomers ? round(row.extraCustomers.q50) : null),
-      cell: (row) => (row.extraCustomers ? intervalText(row.extraCustomers, true) : <span className="text-ink-500">reference</span>),
+      cell: (row) => (row.extraCustomers ? <IntervalCell summary={row.extraCustomers} signed /> : <span className="text-ink-500">reference</span>),
       align: "end",
     },
     { id: "extra-q05", header: "Extra customers, 5 %", value: (row) => (row.extraCustomers ? round(row.extraCustomers.q05) : null), csvOnly: true },
@@ -133,7 +151,7 @@ export function CellDifferences({ result, currency }: { result: PlannerResult; c
     { id: "scenario", header: "Scenario", value: (row) => row.scenario },
     { id: "cell", header: "Cell", value: (row) => row.cell },
     { id: "extra-spend", header: "Extra spend", value: (row) => Math.round(row.extraSpend), cell: (row) => `${row.extraSpend > 0 ? "+" : ""}${formatMoney(row.extraSpend, currency)}`, align: "end" },
-    { id: "extra-customers", header: "Extra customers (median, 90 %)", value: (row) => round(row.extraCustomers.q50), cell: (row) => intervalText(row.extraCustomers, true), align: "end" },
+    { id: "extra-customers", header: "Extra customers (median, 90 %)", value: (row) => round(row.extraCustomers.q50), cell: (row) => <IntervalCell summary={row.extraCustomers} signed />, align: "end" },
     { id: "extra-q05", header: "Extra customers, 5 %", value: (row) => round(row.extraCustomers.q05), csvOnly: true },
     { id: "extra-q95", header: "Extra customers, 95 %", value: (row) => round(row.extraCustomers.q95), csvOnly: true },
     {
@@ -163,29 +181,67 @@ export function CellDifferences({ result, currency }: { result: PlannerResult; c
   );
 }
 
-type WeekRow = { week: number; values: ({ q05: number; q50: number; q95: number; spend: number } | null)[] };
+type WeekRow = { week: number; date: string | null; spend: number; q05: number; q25: number; q50: number; q75: number; q95: number };
 
-/** The forecast week by week for every plan, for reading and export. */
-export function WeeklyForecastTable({ result, currency }: { result: PlannerResult; currency: string }) {
+/** The forecast week by week for one plan at a time, for reading and export. */
+export function WeeklyForecastTable({ result, currency, firstWeek }: { result: PlannerResult; currency: string; firstWeek: string | null }) {
+  const selectId = useId();
   const plans = [
-    { name: "Current plan", weeks: result.current.selection.weeks },
-    ...result.scenarios.flatMap((s) => (s.ok ? [{ name: s.name, weeks: s.plan.selection.weeks }] : [])),
+    { id: "current", name: "Current plan", weeks: result.current.selection.weeks },
+    ...result.scenarios.flatMap((s) => (s.ok ? [{ id: s.id, name: s.name, weeks: s.plan.selection.weeks }] : [])),
   ];
-  const rows: WeekRow[] = result.current.selection.weeks.map((week, h) => ({
+  const [chosen, setChosen] = useState("current");
+  const plan = plans.find((p) => p.id === chosen) ?? plans[0]!;
+  const rows: WeekRow[] = plan.weeks.map((week) => ({
     week: week.planWeek + 1,
-    values: plans.map((plan) => {
-      const w = plan.weeks[h];
-      return w ? { q05: w.outcome.q05, q50: w.outcome.q50, q95: w.outcome.q95, spend: w.spend } : null;
-    }),
+    date: firstWeek ? addWeeks(firstWeek, week.planWeek) : null,
+    spend: week.spend,
+    q05: week.outcome.q05,
+    q25: week.outcome.q25,
+    q50: week.outcome.q50,
+    q75: week.outcome.q75,
+    q95: week.outcome.q95,
   }));
   const columns: DataTableColumn<WeekRow>[] = [
     { id: "week", header: "Plan week", value: (row) => row.week, align: "end" },
-    ...plans.flatMap((plan, p): DataTableColumn<WeekRow>[] => [
-      { id: `spend-${p}`, header: `${plan.name}: spend`, value: (row) => (row.values[p] ? Math.round(row.values[p]!.spend) : null), cell: (row) => (row.values[p] ? formatMoney(row.values[p]!.spend, currency) : "–"), align: "end" },
-      { id: `median-${p}`, header: `${plan.name}: new customers`, value: (row) => (row.values[p] ? round(row.values[p]!.q50) : null), cell: (row) => (row.values[p] ? intervalText(row.values[p]!) : "–"), align: "end" },
-      { id: `q05-${p}`, header: `${plan.name}: 5 %`, value: (row) => (row.values[p] ? round(row.values[p]!.q05) : null), csvOnly: true },
-      { id: `q95-${p}`, header: `${plan.name}: 95 %`, value: (row) => (row.values[p] ? round(row.values[p]!.q95) : null), csvOnly: true },
-    ]),
+    ...(firstWeek ? [{ id: "date", header: "Week of", value: (row: WeekRow) => row.date, cell: (row: WeekRow) => (row.date ? formatWeek(row.date) : "–") }] : []),
+    { id: "spend", header: "Spend", value: (row) => Math.round(row.spend), cell: (row) => formatMoney(row.spend, currency), align: "end" },
+    { id: "median", header: "New customers (median)", value: (row) => round(row.q50), cell: (row) => formatNumber(row.q50, 4), align: "end" },
+    { id: "q25", header: "50 % interval", value: (row) => `${round(row.q25)} to ${round(row.q75)}`, cell: (row) => `${formatNumber(row.q25, 4)} to ${formatNumber(row.q75, 4)}`, align: "end", sortable: false },
+    { id: "q05", header: "90 % interval", value: (row) => `${round(row.q05)} to ${round(row.q95)}`, cell: (row) => `${formatNumber(row.q05, 4)} to ${formatNumber(row.q95, 4)}`, align: "end", sortable: false },
   ];
-  return <DataTable caption="Forecast per plan week" rows={rows} columns={columns} rowKey={(row) => String(row.week)} csvFileName="forecast-per-week.csv" filterable={false} pageSize={13} compact />;
+  return (
+    <div className="space-y-2">
+      <div>
+        <label htmlFor={selectId} className="text-small font-medium text-ink-800">
+          Week by week for
+        </label>
+        <select id={selectId} className={`${inputClass} ml-2 inline-block w-80 max-w-full`} value={plan.id} onChange={(event) => setChosen(event.target.value)}>
+          {plans.map((p) => (
+            <option key={p.id} value={p.id}>
+              {p.name}
+            </option>
+          ))}
+        </select>
+      </div>
+      <DataTable
+        key={plan.id}
+        caption={`Forecast per plan week: ${plan.name}`}
+        rows={rows}
+        columns={columns}
+        rowKey={(row) => String(row.week)}
+        csvFileName={`forecast-per-week-${plan.id === "current" ? "current-plan" : "scenario"}.csv`}
+        filterable={false}
+        pageSize={13}
+        compact
+      />
+    </div>
+  );
+}
+
+/** The ISO Monday `weeks` weeks after `monday`. */
+function addWeeks(monday: string, weeks: number): string {
+  const date = new Date(`${monday.slice(0, 10)}T00:00:00Z`);
+  date.setUTCDate(date.getUTCDate() + 7 * weeks);
+  return date.toISOString().slice(0, 10);
 }

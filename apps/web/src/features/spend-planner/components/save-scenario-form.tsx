@@ -16,7 +16,9 @@ type SaveScenarioFormProps = {
 /** Saves one scenario under a name, for the people who can see its markets. */
 export function SaveScenarioForm({ input, defaultName, hasCurrentEdits }: SaveScenarioFormProps) {
   const id = useId();
-  const [name, setName] = useState(defaultName);
+  // Follows the scenario's name until the person types another one here.
+  const [typedName, setName] = useState<string | null>(null);
+  const name = typedName ?? defaultName;
   const [note, setNote] = useState("");
   const [errors, setErrors] = useState<Record<string, string>>({});
   const save = useCreateScenarioPlan();

@@ -66,7 +66,7 @@ function OperationRow({
           <label htmlFor={`${id}-kind`} className="block text-caption font-medium text-ink-700">
             Change
           </label>
-          <select id={`${id}-kind`} aria-label={`Kind of ${label}`} className={`${inputClass} mt-1 w-48`} value={draft.kind} onChange={(e) => set({ kind: e.target.value as OperationKind })}>
+          <select id={`${id}-kind`} aria-label={`Kind of ${label}`} className={`${inputClass} mt-1 w-44`} value={draft.kind} onChange={(e) => set({ kind: e.target.value as OperationKind })}>
             {kinds.map((kind) => (
               <option key={kind} value={kind}>
                 {operationKindLabels[kind]}
@@ -91,7 +91,7 @@ function OperationRow({
               aria-label={`${valueLabel}, ${label}`}
               aria-invalid={errors.value ? true : undefined}
               aria-describedby={describedBy(`${id}-value`, { error: errors.value })}
-              className={`${inputClass} mt-1 w-32 text-right tabular-nums`}
+              className={`${inputClass} mt-1 w-24 text-right tabular-nums`}
               value={draft.value}
               onChange={(e) => set({ value: e.target.value })}
             />
@@ -101,7 +101,7 @@ function OperationRow({
           <label htmlFor={`${id}-channel`} className="block text-caption font-medium text-ink-700">
             Channel
           </label>
-          <select id={`${id}-channel`} aria-label={`Channel of ${label}`} className={`${inputClass} mt-1 w-40`} value={draft.channel} onChange={(e) => set({ channel: e.target.value })}>
+          <select id={`${id}-channel`} aria-label={`Channel of ${label}`} className={`${inputClass} mt-1 w-36`} value={draft.channel} onChange={(e) => set({ channel: e.target.value })}>
             <option value="">Every channel</option>
             {choices.channels.map((channel) => (
               <option key={channel} value={channel}>
@@ -114,7 +114,7 @@ function OperationRow({
           <label htmlFor={`${id}-market`} className="block text-caption font-medium text-ink-700">
             Market
           </label>
-          <select id={`${id}-market`} aria-label={`Market of ${label}`} className={`${inputClass} mt-1 w-40`} value={draft.market} onChange={(e) => set({ market: e.target.value })}>
+          <select id={`${id}-market`} aria-label={`Market of ${label}`} className={`${inputClass} mt-1 w-36`} value={draft.market} onChange={(e) => set({ market: e.target.value })}>
             <option value="">Every market</option>
             {choices.markets.map((market) => (
               <option key={market} value={market}>
@@ -128,7 +128,7 @@ function OperationRow({
             <label htmlFor={`${id}-brand`} className="block text-caption font-medium text-ink-700">
               Brand
             </label>
-            <select id={`${id}-brand`} aria-label={`Brand of ${label}`} className={`${inputClass} mt-1 w-36`} value={draft.brand} onChange={(e) => set({ brand: e.target.value })}>
+            <select id={`${id}-brand`} aria-label={`Brand of ${label}`} className={`${inputClass} mt-1 w-32`} value={draft.brand} onChange={(e) => set({ brand: e.target.value })}>
               <option value="">Every brand</option>
               {choices.brands.map((brand) => (
                 <option key={brand} value={brand}>
@@ -138,28 +138,32 @@ function OperationRow({
             </select>
           </div>
         ) : null}
-        <fieldset className="flex items-end gap-1.5">
-          <legend className="text-caption font-medium text-ink-700">Plan weeks</legend>
-          <input
-            aria-label={`First week, ${label}`}
-            inputMode="numeric"
-            aria-invalid={errors.fromWeek ? true : undefined}
-            aria-describedby={describedBy(`${id}-from`, { error: errors.fromWeek })}
-            className={`${inputClass} mt-1 w-14 text-right tabular-nums`}
-            value={draft.fromWeek}
-            onChange={(e) => set({ fromWeek: e.target.value })}
-          />
-          <span className="pb-1.5 text-small text-ink-600">to</span>
-          <input
-            aria-label={`Last week, ${label}`}
-            inputMode="numeric"
-            aria-invalid={errors.toWeek ? true : undefined}
-            aria-describedby={describedBy(`${id}-to`, { error: errors.toWeek })}
-            className={`${inputClass} mt-1 w-14 text-right tabular-nums`}
-            value={draft.toWeek}
-            onChange={(e) => set({ toWeek: e.target.value })}
-          />
-        </fieldset>
+        <div role="group" aria-labelledby={`${id}-weeks`}>
+          <span id={`${id}-weeks`} className="block text-caption font-medium text-ink-700">
+            Plan weeks
+          </span>
+          <span className="mt-1 flex items-center gap-1.5">
+            <input
+              aria-label={`First week, ${label}`}
+              inputMode="numeric"
+              aria-invalid={errors.fromWeek ? true : undefined}
+              aria-describedby={describedBy(`${id}-from`, { error: errors.fromWeek })}
+              className={`${inputClass} w-14 text-right tabular-nums`}
+              value={draft.fromWeek}
+              onChange={(e) => set({ fromWeek: e.target.value })}
+            />
+            <span className="text-small text-ink-600">to</span>
+            <input
+              aria-label={`Last week, ${label}`}
+              inputMode="numeric"
+              aria-invalid={errors.toWeek ? true : undefined}
+              aria-describedby={describedBy(`${id}-to`, { error: errors.toWeek })}
+              className={`${inputClass} w-14 text-right tabular-nums`}
+              value={draft.toWeek}
+              onChange={(e) => set({ toWeek: e.target.value })}
+            />
+          </span>
+        </div>
         <Button variant="quiet" className="ml-auto" onClick={onRemove} aria-label={`Remove ${label}`}>
           Remove
         </Button>

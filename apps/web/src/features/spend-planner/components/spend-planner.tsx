@@ -223,7 +223,7 @@ function PlannerWorkspace({ drawSet, user, runner }: { drawSet: DecodedDrawSet; 
               onRemove={scenarios.length > 1 ? () => setScenarios((list) => list.filter((s) => s.id !== scenario.id)) : undefined}
               problem={scenarioProblem(scenario.id)}
             />
-            <SaveScenarioForm key={`${scenario.id}-${scenario.name === "" ? "" : "named"}`} input={saveInput(scenario)} defaultName={scenario.name} hasCurrentEdits={(currentEdits?.length ?? 0) > 0} />
+            <SaveScenarioForm key={scenario.id} input={saveInput(scenario)} defaultName={scenario.name} hasCurrentEdits={(currentEdits?.length ?? 0) > 0} />
           </div>
         ))}
         <Button
@@ -282,7 +282,7 @@ function PlannerWorkspace({ drawSet, user, runner }: { drawSet: DecodedDrawSet; 
             <PlanComparison result={result} currency={drawSet.currency} horizon={result.current.selection.weeks.length} />
             <ModelCaution />
             <CellDifferences result={result} currency={drawSet.currency} />
-            <WeeklyForecastTable result={result} currency={drawSet.currency} />
+            <WeeklyForecastTable result={result} currency={drawSet.currency} firstWeek={sharedFirstWeek} />
             <p className="text-caption text-ink-600">{result.current.note}</p>
           </div>
         ) : null}

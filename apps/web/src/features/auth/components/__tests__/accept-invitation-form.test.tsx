@@ -96,7 +96,7 @@ describe("the invitation page", () => {
       [`GET /api/invitations/${token}`]: () =>
         jsonResponse(409, { error: { code: "conflict", message: "This invitation link expired on 2025-01-03 12:00 UTC. Ask an admin to send a new one" } }),
     });
-    expect((await screen.findByRole("alert", {}, { timeout: 5000 })).textContent).toBe("This invitation link expired on 2025-01-03 12:00 UTC. Ask an admin to send a new one");
+    expect((await screen.findByRole("alert", {}, { timeout: 5000 })).textContent).toBe("This invitation link expired on 2025-01-03 12:00 UTC. Ask an admin to send a new one.");
     expect(screen.getByRole("heading", { level: 1, name: "This invitation link does not work" })).toBeTruthy();
     expect(screen.getByRole("link", { name: "Sign in" }).getAttribute("href")).toBe("/sign-in");
   });

@@ -80,27 +80,22 @@ function savedPlan(body: BudgetSplitPlanInput, status: BudgetSplitPlan["status"]
 }
 
 describe("BudgetSplit", () => {
-  it("splits the budget in the browser, saves it with the allocation computed, submits it, and a portfolio lead decides", async () => {
+  it("splits the budget in the browser, saves it with the allocation computed and submits it for approval", async () => {
     let saved: BudgetSplitPlan | null = null;
-    const summaries: PlanSummary[] = [];
     const { calls } = stubFetch({
       "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()),
-      "GET /api/plans": () => jsonResponse(200, summaries),
+      "GET /api/plans": () => jsonResponse(200, []),
       "POST /api/plans/budget-splits": ({ body }) => {
         saved = savedPlan(body as BudgetSplitPlanInput, "draft", { submit: true });
         return jsonResponse(201, saved);
       },
       "GET /api/plans/plan-9": () => jsonResponse(200, saved),
       "POST /api/plans/plan-9/submit": () => {
-        saved = { ...savedPlan(calls.find((c) => c.method === "POST")!.body as BudgetSplitPlanInput, "submitted", { withdraw: true, decide: true }) };
-        return jsonResponse(200, saved);
-      },
-      "POST /api/plans/plan-9/decision": () => {
-        saved = { ...saved!, status: "approved", can: { ...saved!.can, decide: false, withdraw: false }, decision: { by: { id: "u-l", name: "Lior Pask" }, at: "2025-01-08T10:00:00.000Z", comment: "Go ahead" } };
+        saved = savedPlan(calls.find((c) => c.method === "POST")!.body as BudgetSplitPlanInput, "submitted", { withdraw: true });
         return jsonResponse(200, saved);
       },
     });
-    renderWithProviders(<BudgetSplit user={testUsers.portfolio_lead} portfolio={testPortfolio()} runner={inlineSplitRunner()} />);
+    renderWithProviders(<BudgetSplit user={testUsers.analyst} portfolio={testPortfolio()} runner={inlineSplitRunner()} />);
     const form = await screen.findByRole("form", { name: "Budget split inputs" }, wait);
     fireEvent.change(within(form).getByLabelText("Total budget (EUR)"), { target: { value: "45000" } });
     fireEvent.change(within(form).getByRole("textbox", { name: "Lower bound, radio" }), { target: { value: "3000" } });
@@ -127,6 +122,56 @@ describe("BudgetSplit", () => {
 
     fireEvent.click(within(panel).getByRole("button", { name: "Submit for approval" }));
     await within(panel).findByText("Waiting for approval", {}, wait);
+    expect(within(panel).getByText("Waiting for a portfolio lead to approve or reject it.")).toBeTruthy();
+    expect(within(panel).queryByRole("form", { name: "Decide on this plan" })).toBeNull();
+    expect(within(panel).getByRole("button", { name: "Withdraw" })).toBeTruthy();
+  }, 30_000);
+
+  it("lets a portfolio lead approve a submitted split, and asks for a comment to reject it", async () => {
+    const body: BudgetSplitPlanInput = {
+      name: "Q3 split from the analyst",
+      runId: "run-7",
+      cellIds: ["c1", "c3"],
+      totalBudget: 30000,
+      horizon: 13,
+      recentWeeks: 13,
+      bounds: [],
+      objective: { kind: "customers" },
+      risk: { kind: "expected" },
+      allocation: [],
+    };
+    let plan: BudgetSplitPlan = { ...savedPlan(body, "submitted", { decide: true }), createdBy: { id: "u-n", name: "Nell Ostrand" } };
+    const summary: PlanSummary = {
+      id: plan.id,
+      kind: "budget_split",
+      name: plan.name,
+      status: "submitted",
+      runId: "run-7",
+      runIsCurrent: true,
+      markets: plan.markets,
+      cellCount: 2,
+      horizon: 13,
+      spend: 30000,
+      extraCustomers: plan.budgetSplit.result.customers.difference,
+      createdBy: plan.createdBy,
+      createdAt: plan.createdAt,
+      updatedAt: plan.updatedAt,
+      decidedAt: null,
+    };
+    const { calls } = stubFetch({
+      "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()),
+      "GET /api/plans": () => jsonResponse(200, [summary]),
+      "GET /api/plans/plan-9": () => jsonResponse(200, plan),
+      "POST /api/plans/plan-9/decision": () => {
+        plan = { ...plan, status: "approved", can: { ...plan.can, decide: false }, decision: { by: { id: "u-l", name: "Lior Pask" }, at: "2025-01-08T10:00:00.000Z", comment: "Go ahead" } };
+        return jsonResponse(200, plan);
+      },
+    });
+    renderWithProviders(<BudgetSplit user={testUsers.portfolio_lead} portfolio={testPortfolio()} runner={inlineSplitRunner()} />);
+    const list = await screen.findByRole("table", { name: "Saved budget splits" }, wait);
+    expect(within(list).getByRole("row", { name: /Q3 split from the analyst/ }).textContent).toMatch(/Waiting for approval/);
+    fireEvent.click(within(list).getByRole("button", { name: "Open Q3 split from the analyst" }));
+    const panel = await screen.findByRole("region", { name: "Plan Q3 split from the analyst" }, wait);
     const decision = within(panel).getByRole("form", { name: "Decide on this plan" });
     fireEvent.click(within(decision).getByRole("button", { name: "Reject" }));
     expect(within(decision).getByRole("alert").textContent).toBe("Say why the plan is rejected (at least 5 characters)");
@@ -135,6 +180,8 @@ describe("BudgetSplit", () => {
     fireEvent.click(within(decision).getByRole("button", { name: "Approve" }));
     await within(panel).findByText(/^Approved .* by Lior Pask: “Go ahead”/, {}, wait);
     expect(calls.find((call) => call.path.endsWith("/decision"))?.body).toEqual({ decision: "approve", comment: "Go ahead" });
+    // The saved result shows with its caution.
+    expect(within(panel).getByRole("complementary", { name: "Caution about estimates" })).toBeTruthy();
   }, 30_000);
 
   it("shows the inputs that are wrong and does not split", async () => {
