@@ -112,7 +112,7 @@ function boundWords(line: SplitLineView, currency: string): string {
 }
 
 /** "12 of 70 lines sit at a bound: 9 get nothing, 3 at their upper bound." */
-export function boundSummary(atBounds: readonly SplitLineView[], total: number): string {
+export function boundSummary(atBounds: readonly SplitLineView[], total: number, equalAtMargin: boolean): string {
   const nothing = atBounds.filter((line) => line.activeBound === "lower" && line.lower === 0).length;
   const lower = atBounds.filter((line) => line.activeBound === "lower" && line.lower > 0).length;
   const upper = atBounds.filter((line) => line.activeBound === "upper").length;
@@ -123,7 +123,7 @@ export function boundSummary(atBounds: readonly SplitLineView[], total: number):
     upper ? `${upper} at ${upper === 1 ? "its" : "their"} upper bound` : null,
     fixed ? `${fixed} fixed` : null,
   ].filter(Boolean);
-  return `${atBounds.length} of ${total} lines sit at a bound: ${parts.join(", ")}. The rest share the budget at equal return.`;
+  return `${atBounds.length} of ${total} lines sit at a bound: ${parts.join(", ")}.${equalAtMargin ? " The rest share the budget at equal return." : ""}`;
 }
 
 function BoundChips({ lines, currency }: { lines: readonly SplitLineView[]; currency: string }) {
@@ -154,7 +154,7 @@ export function SplitResult({ view, currency, title = "Split result" }: { view: 
             </dd>
           </div>
           <div className="rounded-md border border-line bg-surface p-3">
-            <dt className="text-caption text-ink-600">{view.objective === "profit" ? `Expected profit (${currency})` : "New customers (median)"}</dt>
+            <dt className="text-caption text-ink-600">{view.objective === "profit" ? `Profit (median, ${currency})` : "New customers (median)"}</dt>
             <dd className="text-heading font-semibold text-ink-900">{formatNumber(outcome.allocation.q50, 4)}</dd>
             <dd className="text-caption text-ink-600">
               90 %: {formatNumber(outcome.allocation.q05, 3)} to {formatNumber(outcome.allocation.q95, 3)}; at current spend {formatNumber(outcome.current.q50, 4)}
@@ -188,7 +188,7 @@ export function SplitResult({ view, currency, title = "Split result" }: { view: 
           <p className="mt-1 text-small text-ink-700">None: every line was free to move.</p>
         ) : (
           <>
-            <p className="mt-1 text-small text-ink-700">{boundSummary(atBounds, view.lines.length)}</p>
+            <p className="mt-1 text-small text-ink-700">{boundSummary(atBounds, view.lines.length, marginalCheck(view.lines).equal)}</p>
             {atBounds.length <= 8 ? (
               <BoundChips lines={atBounds} currency={currency} />
             ) : (

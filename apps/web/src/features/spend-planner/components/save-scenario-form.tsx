@@ -50,7 +50,7 @@ export function SaveScenarioForm({ input, defaultName, hasCurrentEdits }: SaveSc
           <input
             id={`${id}-name`}
             maxLength={planBounds.name.max}
-            className={`${inputClass} mt-1 w-72`}
+            className={`${inputClass} mt-1 w-96 max-w-full`}
             value={name}
             aria-invalid={errors.name ? true : undefined}
             aria-describedby={describedBy(`${id}-name`, { error: errors.name })}

@@ -61,7 +61,7 @@ function OperationRow({
 
   return (
     <li className="rounded-md border border-line bg-paper/40 p-3" aria-label={`Change ${index + 1}`}>
-      <div className="flex flex-wrap items-end gap-3">
+      <div className="flex flex-wrap items-start gap-3">
         <div>
           <label htmlFor={`${id}-kind`} className="block text-caption font-medium text-ink-700">
             Change
@@ -75,7 +75,7 @@ function OperationRow({
           </select>
         </div>
         {draft.kind === "set" ? (
-          <label className="flex items-center gap-2 pb-2 text-small text-ink-800">
+          <label className="flex items-center gap-2 self-end pb-2 text-small text-ink-800">
             <input type="checkbox" checked={draft.perWeek} onChange={(e) => set({ perWeek: e.target.checked })} aria-label={`One value per week, ${label}`} />
             One value per week
           </label>
@@ -164,7 +164,7 @@ function OperationRow({
             />
           </span>
         </div>
-        <Button variant="quiet" className="ml-auto" onClick={onRemove} aria-label={`Remove ${label}`}>
+        <Button variant="quiet" className="ml-auto self-end" onClick={onRemove} aria-label={`Remove ${label}`}>
           Remove
         </Button>
       </div>
@@ -224,7 +224,7 @@ export function ScenarioEditor({ scenario, horizon, choices, onChange, onRemove,
           <input
             id={nameId}
             maxLength={120}
-            className={`${inputClass} mt-1 w-72`}
+            className={`${inputClass} mt-1 w-96 max-w-full`}
             value={scenario.name}
             aria-invalid={scenario.name.trim() === "" ? true : undefined}
             onChange={(e) => onChange({ ...scenario, name: e.target.value })}
