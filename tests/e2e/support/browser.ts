@@ -16,6 +16,8 @@ const chromiumFlags = [
   "--disable-sync",
 ];
 
+const unpublishedDashboard = /^\/api\/dashboards\/(portfolio-map|brand-comparison|market-desk|pooling-review)$/;
+
 export type BrowserSession = {
   context: BrowserContext;
   page: Page;
@@ -35,8 +37,12 @@ export async function openBrowser(viewport: { width: number; height: number } = 
   const problems: string[] = [];
   page.on("pageerror", (error) => problems.push(`page error: ${error.message}`));
   page.on("console", (message) => {
+    if (message.type() !== "error") return;
     // A 401 from /api/auth/me before signing in is the expected answer, not a problem.
-    if (message.type() === "error" && !message.text().includes("401")) problems.push(`console: ${message.text()}`);
+    if (message.text().includes("401")) return;
+    // So is a dashboard's 404 before any run is published: the screen says so honestly.
+    if (message.text().includes("404") && unpublishedDashboard.test(new URL(message.location().url || "http://x/").pathname)) return;
+    problems.push(`console: ${message.text()}`);
   });
   return {
     context,

@@ -50,7 +50,7 @@ function tableColumns(currency: string, channelSheetHref: BrandComparisonProps["
       id: "interval",
       header: "90 % interval",
       value: (row) => `${money(row.interval.q05)}–${money(row.interval.q95)}`,
-      cell: (row) => `${formatCac(row.interval.q05, currency)}–${formatCac(row.interval.q95, currency)}`,
+      cell: (row) => <span className="whitespace-nowrap">{`${formatCac(row.interval.q05, currency)}–${formatCac(row.interval.q95, currency)}`}</span>,
       align: "end",
       sortable: false,
     },

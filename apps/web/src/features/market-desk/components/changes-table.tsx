@@ -17,8 +17,8 @@ function columns(currency: string): DataTableColumn<Change>[] {
     { id: "brand", header: "Brand", value: (row) => row.brand },
     { id: "market", header: "Market", value: (row) => row.market },
     { id: "channel", header: "Channel", value: (row) => row.channelName },
-    { id: "before", header: "Before", value: (row) => money(row.before?.q50), cell: (row) => side(row.before, currency), align: "end" },
-    { id: "after", header: "Now", value: (row) => money(row.after?.q50), cell: (row) => side(row.after, currency), align: "end" },
+    { id: "before", header: "Before", value: (row) => money(row.before?.q50), cell: (row) => <span className="whitespace-nowrap">{side(row.before, currency)}</span>, align: "end" },
+    { id: "after", header: "Now", value: (row) => money(row.after?.q50), cell: (row) => <span className="whitespace-nowrap">{side(row.after, currency)}</span>, align: "end" },
     {
       id: "change",
       header: "Median change",

@@ -21,7 +21,7 @@ function columns(currency: string, flagsById: Map<string, Flag>, oneMarket: bool
       id: "interval",
       header: "90 % interval",
       value: (row) => (row.hasSpend ? `${money(row.cac.q05)}–${money(row.cac.q95)}` : null),
-      cell: (row) => (row.hasSpend ? `${formatCac(row.cac.q05, currency)}–${formatCac(row.cac.q95, currency)}` : "–"),
+      cell: (row) => (row.hasSpend ? <span className="whitespace-nowrap">{`${formatCac(row.cac.q05, currency)}–${formatCac(row.cac.q95, currency)}`}</span> : "–"),
       align: "end",
       sortable: false,
     },

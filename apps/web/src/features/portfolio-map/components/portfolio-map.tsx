@@ -46,7 +46,7 @@ function cellColumns(map: PortfolioMapData): DataTableColumn<PortfolioMapCell>[]
       id: "interval",
       header: "90 % interval",
       value: (row) => (row.cac ? `${money(row.cac.q05)}–${money(row.cac.q95)}` : null),
-      cell: (row) => (row.cac ? `${formatCac(row.cac.q05, map.currency)}–${formatCac(row.cac.q95, map.currency)}` : "–"),
+      cell: (row) => (row.cac ? <span className="whitespace-nowrap">{`${formatCac(row.cac.q05, map.currency)}–${formatCac(row.cac.q95, map.currency)}`}</span> : "–"),
       align: "end",
       sortable: false,
     },
