@@ -1,17 +1,17 @@
-import type { Flag, PoolingReview as PoolingReviewData } from "@tributary/contracts";
+import type { Flag, PoolingReview as PoolingReviewData, Run } from "@tributary/contracts";
 import { useId, useMemo, useRef, useState, type ReactNode } from "react";
 import { Link, useSearchParams } from "react-router-dom";
 import { DataTable, type DataTableColumn } from "../../../components/data-table/data-table";
 import { FlagBadge } from "../../../components/estimate/flag-badge";
 import { ShrinkageMark } from "../../../components/estimate/shrinkage-mark";
-import { RunStamp } from "../../../components/results/run-stamp";
+import { RunStamp, runLabel } from "../../../components/results/run-stamp";
 import { Button } from "../../../components/ui/button";
 import { EmptyState } from "../../../components/ui/empty-state";
 import { ErrorState } from "../../../components/ui/error-state";
 import { inputClass } from "../../../components/ui/field";
 import { LoadingState } from "../../../components/ui/loading-state";
 import { PageHeader } from "../../../components/ui/page-header";
-import { formatCac } from "../../../lib/format";
+import { formatCac, formatDateTime } from "../../../lib/format";
 import { useCreateFlag } from "../api/create-flag";
 import { poolingReviewCsvHref, usePoolingReview } from "../api/get-pooling-review";
 import { FlagForm, type FlagTarget } from "./flag-form";
@@ -24,6 +24,8 @@ type ReviewRow = PoolingReviewData["rows"][number];
 type PoolingReviewProps = {
   noPublishedRun: ReactNode;
   channelSheetHref: (selection: { cellId: string; channel: string }) => string;
+  /** Finished runs that can be reviewed, newest first (the current one among them). */
+  runs: Run[];
 };
 
 const ALL = "all";
@@ -90,7 +92,29 @@ function estimateColumns(review: PoolingReviewData, flagsById: Map<string, Flag>
   ];
 }
 
-export function PoolingReview({ noPublishedRun, channelSheetHref }: PoolingReviewProps) {
+function RunPicker({ runs, shown, onChange }: { runs: Run[]; shown: Run; onChange: (runId: string | null) => void }) {
+  const id = useId();
+  const options = runs.some((run) => run.id === shown.id) ? runs : [shown, ...runs];
+  if (options.length < 2) return null;
+  return (
+    <div className="mb-6">
+      <label htmlFor={id} className="block text-small font-medium text-ink-800">
+        Run to review
+      </label>
+      <select id={id} className={`${inputClass} mt-1 w-[32rem] max-w-full`} value={shown.id} onChange={(event) => onChange(options.find((run) => run.id === event.target.value)?.current ? null : event.target.value)}>
+        {options.map((run) => (
+          <option key={run.id} value={run.id}>
+            {runLabel(run)}, fitted {run.finishedAt ? formatDateTime(run.finishedAt) : "–"}
+            {run.current ? " · current" : ""}
+            {run.trust.trustworthy === false ? " · not trustworthy" : ""}
+          </option>
+        ))}
+      </select>
+    </div>
+  );
+}
+
+export function PoolingReview({ noPublishedRun, channelSheetHref, runs }: PoolingReviewProps) {
   const [params, setParams] = useSearchParams();
   const runId = params.get("run");
   const query = usePoolingReview(runId);
@@ -160,6 +184,7 @@ export function PoolingReview({ noPublishedRun, channelSheetHref }: PoolingRevie
     <>
       {header}
       <RunStamp run={review.run} lead={review.run.current ? "Numbers on this screen come from" : "You are reviewing"} />
+      <RunPicker runs={runs} shown={review.run} onChange={(next) => setParam("run", next)} />
       <p className="mb-6 text-small text-ink-700">
         {review.rows.length} cell × channel estimates · {review.outliers.length} candidate {review.outliers.length === 1 ? "outlier" : "outliers"} ·{" "}
         {activeFlags} flagged. Figures: {review.basis.label}, in {review.currency}.

@@ -1,7 +1,8 @@
 import { fireEvent, screen, waitFor, within } from "@testing-library/react";
 import type { PoolingReview } from "@tributary/contracts";
 import { describe, expect, it } from "vitest";
-import { testFlag, testPoolingReview } from "../../../../testing/dashboard-fixtures";
+import { publishedRun, testFlag, testPoolingReview } from "../../../../testing/dashboard-fixtures";
+import { testRun } from "../../../../testing/run-fixtures";
 import { jsonResponse, renderApp, signedInRoutes, testUsers } from "../../../../testing/test-utils";
 
 describe("pooling review screen", () => {
@@ -56,5 +57,27 @@ describe("pooling review screen", () => {
     const postAt = calls.findIndex((call) => call.method === "POST");
     await waitFor(() => expect(calls.slice(postAt).some((call) => call.path === "/api/dashboards/pooling-review")).toBe(true));
     await waitFor(() => expect(within(screen.getByRole("table", { name: "Flags" })).getAllByRole("row")).toHaveLength(3));
+  });
+
+  it("reviews an earlier finished run chosen from the list, and says it is not the current one", async () => {
+    const older = testRun({ id: "run-0e1d2c3b", current: false, datasetVersionNumber: 2, finishedAt: "2025-01-10T09:00:00.000Z" });
+    let chosen = false;
+    const { router } = renderApp("/pooling-review", {
+      ...signedInRoutes(testUsers.admin),
+      "GET /api/runs": () => jsonResponse(200, [publishedRun, older]),
+      "GET /api/dashboards/pooling-review": () => jsonResponse(200, chosen ? { ...testPoolingReview(), run: older } : testPoolingReview()),
+      "GET /api/flags": () => jsonResponse(200, []),
+    });
+    const picker = await screen.findByRole("combobox", { name: "Run to review" }, { timeout: 5000 });
+    expect(within(picker).getAllByRole("option").map((option) => option.textContent)).toEqual([
+      expect.stringMatching(/^run run-7f3a \(dataset version 3\), fitted .* · current · not trustworthy$/),
+      expect.stringMatching(/^run run-0e1d \(dataset version 2\), fitted 10 Jan 2025/),
+    ]);
+    chosen = true;
+    fireEvent.change(picker, { target: { value: "run-0e1d2c3b" } });
+    await waitFor(() => expect(router.state.location.search).toBe("?run=run-0e1d2c3b"));
+    const fetchMock = globalThis.fetch as unknown as { mock: { calls: [RequestInfo | URL][] } };
+    await waitFor(() => expect(fetchMock.mock.calls.map(([url]) => String(url))).toContain("/api/dashboards/pooling-review?run=run-0e1d2c3b"));
+    await waitFor(() => expect(screen.getByRole("region", { name: "Published run" }).textContent).toContain("You are reviewing a run that is not the current published fit, run run-0e1d"));
   });
 });
