@@ -1,10 +1,13 @@
 import type { QueryClient } from "@tanstack/react-query";
 import { useSignedInUser } from "../../../features/auth/api/get-current-user";
+import { currentDrawSetQueryOptions } from "../../../features/budget-split/api/get-current-draw-set";
 import { BudgetSplit } from "../../../features/budget-split/components/budget-split";
 import { portfolioQueryOptions, usePortfolioData } from "../../../features/portfolio-map/api/get-portfolio";
 import { ReportDownloads } from "../../../features/reports/components/report-downloads";
 
 export const clientLoader = (queryClient: QueryClient) => async () => {
+  // The draws start loading with the route; the screen shows its own loading and error states.
+  void queryClient.prefetchQuery(currentDrawSetQueryOptions());
   await queryClient.ensureQueryData(portfolioQueryOptions());
   return null;
 };
