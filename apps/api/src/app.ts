@@ -1,19 +1,17 @@
 // Builds the Express app (no listen): tests drive it with supertest, server.ts serves it.
-import { randomUUID } from "node:crypto";
 import { join } from "node:path";
-import express, { type Express, type RequestHandler } from "express";
-import helmet from "helmet";
-import { verifyRequestOrigin } from "lucia";
-import { pino, type Logger } from "pino";
-import { pinoHttp } from "pino-http";
+import express, { type Express } from "express";
+import type { Logger } from "pino";
 import { mountRoutes } from "./access/mount-routes";
 import type { AppDeps, Route } from "./access/route-table";
 import { createAuth } from "./auth/lucia";
+import { sameSiteWrites, sessionTokenOnWrites } from "./auth/csrf";
 import { authenticate } from "./auth/session";
 import { defaultConfig, type AppConfig } from "./config";
 import type { Database } from "./db/client";
 import { apiNotFound, errorHandler } from "./http/error-handler";
-import { Forbidden } from "./http/errors";
+import { createLogger, requestLogger } from "./http/request-log";
+import { securityHeaders } from "./http/security-headers";
 import type { Mailer } from "./mail/mailer";
 import { createMailer } from "./mail/smtp";
 import type { FitJobInput, FitJobOutput, FitJobProgress, FitJobRunner, FitWorkerOptions } from "./jobs/fit-job";
@@ -59,22 +57,9 @@ export function localFitRunner(config: AppConfig): FitJobRunner {
   });
 }
 
-/** Refuses writes whose Origin is another site (lucia's CSRF check); same-site and non-browser clients pass. */
-const sameOriginWrites: RequestHandler = (req, _res, next) => {
-  if (req.method === "GET" || req.method === "HEAD" || req.method === "OPTIONS") return next();
-  const origin = req.get("origin");
-  if (origin && !verifyRequestOrigin(origin, [req.host])) throw new Forbidden("Cross-site request refused");
-  next();
-};
-
 export function createApp(options: CreateAppOptions): Express {
   const config: AppConfig = { ...defaultConfig, ...options.config };
-  const logger =
-    options.logger ??
-    pino({
-      level: config.logLevel,
-      redact: ["req.headers.cookie", "req.headers.authorization", 'res.headers["set-cookie"]'],
-    });
+  const logger = options.logger ?? createLogger(config.logLevel);
   const deps: AppDeps = {
     db: options.db,
     config,
@@ -89,25 +74,12 @@ export function createApp(options: CreateAppOptions): Express {
   (app.locals as Record<symbol, AppDeps>)[appDepsKey] = deps;
   app.set("trust proxy", config.trustProxy);
   app.disable("x-powered-by");
-  app.use(
-    pinoHttp({
-      logger,
-      // Method, path and status only: no headers, cookies or bodies in the log.
-      serializers: {
-        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url.split("?")[0] }),
-        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
-      },
-      genReqId: (_req, res) => {
-        const id = randomUUID();
-        res.setHeader("X-Request-Id", id);
-        return id;
-      },
-    }),
-  );
-  // Local http must keep working, so no forced upgrade to https.
-  app.use(helmet({ contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } } }));
+  // Request id, method, path and status (and the user id once signed in): no headers, cookies or bodies.
+  app.use(requestLogger(logger));
+  app.use(securityHeaders());
 
-  app.use("/api", express.json({ limit: "1mb" }), sameOriginWrites, authenticate(deps.auth, deps.db));
+  // Writes from another site are refused before anything is read; with a session they need its token.
+  app.use("/api", sameSiteWrites, express.json({ limit: "1mb" }), authenticate(deps.auth, deps.db), sessionTokenOnWrites);
   app.use(mountRoutes(options.routes ?? routeTable, deps));
   app.use("/api", apiNotFound);
 

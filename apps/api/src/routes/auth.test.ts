@@ -4,7 +4,8 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { apiErrorSchema, currentUserSchema } from "@tributary/contracts";
 import { sessions, users } from "../db/schema";
 import { demoUserList, demoUsers } from "../demo/users";
-import { demoTestApp, sessionSetCookie, signInCookie, signedInAgent, type TestApp } from "../testing/test-app";
+import { csrfHeaderName } from "../auth/csrf";
+import { csrfSetCookie, demoTestApp, sessionSetCookie, signInCookie, signedInAgent, type TestApp } from "../testing/test-app";
 
 const DAY = 24 * 3600 * 1000;
 import { wrongCredentialsMessage } from "./auth";
@@ -134,7 +135,7 @@ describe("sessions", () => {
     const cookie = sessionSetCookie(signIn)!.split(";")[0]!;
 
     await request(t.app).get("/api/auth/me").set("Cookie", cookie).expect(200);
-    const out = await request(t.app).post("/api/auth/sign-out").set("Cookie", cookie).expect(204);
+    const out = await request(t.app).post("/api/auth/sign-out").set("Cookie", cookie).set(csrfHeaderName, csrfSetCookie(signIn)!).expect(204);
     expect(sessionSetCookie(out)).toMatch(/tributary_session=;/);
     const after = await request(t.app).get("/api/auth/me").set("Cookie", cookie).expect(401);
     expect(apiErrorSchema.parse(after.body).error.code).toBe("unauthenticated");

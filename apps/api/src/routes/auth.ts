@@ -1,11 +1,12 @@
-// Sign-in, sign-out and the current user.
+// Sign-in, sign-out (here or on every device) and the current user. Every sign-in starts
+// a new session (the browser's old one ends), so a session id known before sign-in is useless.
 import { eq } from "drizzle-orm";
 import { signInInput, type CurrentUser } from "@tributary/contracts";
 import { anyone, defineRoute, markets, signedIn } from "../access/route-table";
 import { verifyAgainstDecoy, verifyPassword } from "../auth/password";
 import { clearSessionCookie, currentUserOf, setSessionCookie } from "../auth/session";
 import { signInRateLimit } from "../auth/sign-in-limit";
-import { auditLog, users } from "../db/schema";
+import { auditLog, sessions, users } from "../db/schema";
 import { Forbidden, Unauthenticated } from "../http/errors";
 
 /** The same words for an unknown e-mail and a wrong password, so neither is revealed. */
@@ -29,6 +30,7 @@ export const authRoutes = [
       if (req.auth) await auth.invalidateSession(req.auth.sessionId);
       const session = await auth.createSession(user.id, {});
       setSessionCookie(auth, req, res, session.id);
+      res.locals.signedInUserId = user.id;
       await db.insert(auditLog).values({ userId: user.id, action: "sign_in", target: `user:${user.id}` });
       return currentUserOf(db, user);
     },
@@ -40,6 +42,19 @@ export const authRoutes = [
     handler: async ({ req, res, auth }) => {
       if (req.auth) await auth.invalidateSession(req.auth.sessionId);
       clearSessionCookie(auth, req, res);
+      return undefined;
+    },
+  }),
+  defineRoute({
+    method: "post",
+    path: "/api/auth/sign-out-all",
+    access: signedIn(markets.unscoped),
+    handler: async ({ req, res, db, auth, user }) => {
+      // Ends every session of the user: this browser's and any other device's.
+      const ended = await db.select({ id: sessions.id }).from(sessions).where(eq(sessions.userId, user.id));
+      await auth.invalidateUserSessions(user.id);
+      clearSessionCookie(auth, req, res);
+      await db.insert(auditLog).values({ userId: user.id, action: "signed_out_everywhere", target: `user:${user.id}`, details: { sessions: ended.length } });
       return undefined;
     },
   }),

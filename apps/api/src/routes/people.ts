@@ -99,6 +99,7 @@ export const peopleRoutes = [
       if (req.auth) await auth.invalidateSession(req.auth.sessionId);
       const session = await auth.createSession(userId, {});
       setSessionCookie(auth, req, res, session.id);
+      res.locals.signedInUserId = userId;
       await db.insert(auditLog).values({ userId, action: "sign_in", target: `user:${userId}` });
       const [row] = await db.select().from(users).where(eq(users.id, userId));
       res.status(201);
