@@ -40,6 +40,25 @@ const messageByCode: Partial<Record<ApiErrorCode, string>> = {
   rate_limited: "Too many attempts. Please wait a moment and try again.",
 };
 
+/** The session's CSRF token: the API sets it in a cookie the page can read and wants it back on every write. */
+export const csrfCookieName = "tributary_csrf";
+export const csrfHeaderName = "X-CSRF-Token";
+
+/** The token from the page's cookies, or null (not signed in). */
+export function readCsrfToken(cookies: string = typeof document === "undefined" ? "" : document.cookie): string | null {
+  for (const part of cookies.split(";")) {
+    const at = part.indexOf("=");
+    if (at < 0 || part.slice(0, at).trim() !== csrfCookieName) continue;
+    const raw = part.slice(at + 1).trim();
+    try {
+      return decodeURIComponent(raw);
+    } catch {
+      return raw;
+    }
+  }
+  return null;
+}
+
 export type RequestOptions = {
   signal?: AbortSignal;
   /** Send the browser to sign-in on a 401. Off for the calls where 401 is an expected answer. */
@@ -76,6 +95,10 @@ export function createApiClient(config: ApiClientConfig = {}) {
     // A FormData body (a file upload) sets its own multipart Content-Type with the boundary.
     const isForm = typeof FormData !== "undefined" && body instanceof FormData;
     if (body !== undefined && !isForm) headers["Content-Type"] = "application/json";
+    if (method !== "GET" && method !== "HEAD") {
+      const token = readCsrfToken();
+      if (token) headers[csrfHeaderName] = token;
+    }
     let response: Response;
     try {
       response = await doFetch(url, {

@@ -25,6 +25,28 @@ type PlotFigureProps = {
 
 const FALLBACK_WIDTH = 800;
 
+const adoptedPlotStyles = new Set<string>();
+
+/**
+ * Plot writes its default rules into <style> elements, which the app's strict
+ * Content-Security-Policy (style-src 'self') refuses once they reach the page. The same
+ * rules are adopted through the CSSOM instead (once per distinct text), before the chart
+ * is inserted. Without constructable style sheets (test DOMs) the elements stay.
+ */
+function adoptPlotStyles(chart: Element): void {
+  const doc = chart.ownerDocument;
+  if (typeof CSSStyleSheet === "undefined" || typeof CSSStyleSheet.prototype.replaceSync !== "function" || !("adoptedStyleSheets" in doc)) return;
+  for (const style of chart.querySelectorAll("style")) {
+    const text = style.textContent ?? "";
+    style.remove();
+    if (adoptedPlotStyles.has(text)) continue;
+    const sheet = new CSSStyleSheet();
+    sheet.replaceSync(text);
+    doc.adoptedStyleSheets = [...doc.adoptedStyleSheets, sheet];
+    adoptedPlotStyles.add(text);
+  }
+}
+
 export function PlotFigure({ title, caption, render, table, legend, children }: PlotFigureProps) {
   const holder = useRef<HTMLDivElement>(null);
   const [width, setWidth] = useState<number | null>(null);
@@ -48,6 +70,7 @@ export function PlotFigure({ title, caption, render, table, legend, children }: 
     try {
       const chart = render(width);
       chart.setAttribute("aria-hidden", "true");
+      adoptPlotStyles(chart);
       element.replaceChildren(chart);
       setFailure(null);
     } catch (error) {

@@ -1,6 +1,6 @@
 import { describe, expect, it, vi } from "vitest";
 import { z } from "zod";
-import { ApiError, createApiClient } from "../api-client";
+import { ApiError, createApiClient, csrfHeaderName, readCsrfToken } from "../api-client";
 
 const thing = z.object({ id: z.string(), count: z.number() });
 
@@ -106,5 +106,43 @@ describe("api client", () => {
   it("returns nothing for 204 and for calls without a response schema", async () => {
     const api = createApiClient({ fetch: vi.fn(async () => new Response(null, { status: 204 })) });
     await expect(api.post("/api/auth/sign-out", null)).resolves.toBeUndefined();
+  });
+
+  it("sends the session's CSRF token from its cookie on every write, multipart included, and never on reads", async () => {
+    document.cookie = "tributary_csrf=tok%2Ben-1; path=/";
+    try {
+      const fetch = vi.fn(async () => new Response(null, { status: 204 }));
+      const api = createApiClient({ fetch });
+      const form = new FormData();
+      form.append("file", new Blob(["week\n"]), "a.csv");
+      await api.post("/api/a", null, {});
+      await api.put("/api/a", null, {});
+      await api.patch("/api/a", null, {});
+      await api.delete("/api/a", null);
+      await api.postForm("/api/a", null, form);
+      await api.get("/api/a", z.unknown()).catch(() => undefined);
+      await api.getFile("/api/a.csv").catch(() => undefined);
+      const sent = fetch.mock.calls.map((call) => {
+        const [, init] = call as unknown as [string, RequestInit];
+        return [init.method, (init.headers as Record<string, string> | undefined)?.[csrfHeaderName]];
+      });
+      expect(sent).toEqual([
+        ["POST", "tok+en-1"],
+        ["PUT", "tok+en-1"],
+        ["PATCH", "tok+en-1"],
+        ["DELETE", "tok+en-1"],
+        ["POST", "tok+en-1"],
+        ["GET", undefined],
+        ["GET", undefined],
+      ]);
+    } finally {
+      document.cookie = "tributary_csrf=; expires=Thu, 01 Jan 1970 00:00:00 GMT; path=/";
+    }
+  });
+
+  it("reads the token among other cookies, and null without one", () => {
+    expect(readCsrfToken("a=1; tributary_csrf=xyz; b=2")).toBe("xyz");
+    expect(readCsrfToken("a=1; not_tributary_csrf=xyz")).toBeNull();
+    expect(readCsrfToken("")).toBeNull();
   });
 });

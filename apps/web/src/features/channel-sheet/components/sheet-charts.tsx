@@ -47,7 +47,7 @@ export function CacPosteriorChart({ sheet }: { sheet: ChannelSheet }) {
       panels.forEach(({ name, posterior }, i) => {
         const heading = document.createElement("p");
         heading.textContent = name;
-        heading.setAttribute("style", `font-size:12px;font-weight:600;color:${seriesColour(i)};margin:${i === 0 ? 0 : 8}px 0 0 56px`);
+        heading.style.cssText = `font-size:12px;font-weight:600;color:${seriesColour(i)};margin:${i === 0 ? 0 : 8}px 0 0 56px`;
         holder.append(heading);
         const last = i === panels.length - 1;
         holder.append(
