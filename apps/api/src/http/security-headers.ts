@@ -2,8 +2,12 @@
 // web app is built to pass: scripts and styles only from our own files (no inline code,
 // no eval), workers from our own files, images from our files or data: URLs, requests to
 // our own API only, no plug-ins, no <base>, never framed by another page.
+import { createHash } from "node:crypto";
 import type { RequestHandler } from "express";
 import helmet from "helmet";
+import { emailInlineStyles } from "../mail/messages";
+
+const hashSource = (text: string) => `'sha256-${createHash("sha256").update(text, "utf8").digest("base64")}'`;
 
 export const contentSecurityPolicy = {
   "default-src": ["'self'"],
@@ -11,6 +15,8 @@ export const contentSecurityPolicy = {
   "script-src-attr": ["'none'"],
   // Charts' styles are applied through the CSSOM (style properties, constructed sheets), which CSP allows.
   "style-src": ["'self'"],
+  // The Outbox's srcdoc frame inherits this policy: exactly the e-mails' own style attributes, by hash; no other.
+  "style-src-attr": ["'unsafe-hashes'", ...Object.values(emailInlineStyles).map(hashSource)],
   "img-src": ["'self'", "data:"],
   "font-src": ["'self'"],
   "connect-src": ["'self'"],
@@ -23,7 +29,7 @@ export const contentSecurityPolicy = {
   "form-action": ["'self'"],
   "frame-ancestors": ["'none'"],
   "manifest-src": ["'self'"],
-} as const;
+};
 
 /** The policy as one header value (tests compare against it). */
 export function contentSecurityPolicyHeader(): string {

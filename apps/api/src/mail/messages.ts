@@ -23,6 +23,19 @@ interface Paragraphs {
   readonly footer?: string;
 }
 
+/**
+ * The inline styles of the e-mails' HTML, the only ones they use. The Outbox shows a
+ * message in a sandboxed srcdoc frame, which inherits the app's Content-Security-Policy;
+ * the policy allows exactly these style attributes by their hashes (security-headers.ts).
+ */
+export const emailInlineStyles = {
+  body: "font-family:system-ui,sans-serif;color:#1d2a33;line-height:1.5",
+  heading: "font-size:18px",
+  table: "border-collapse:collapse;font-size:14px",
+  cell: "text-align:left;padding:4px 10px;border-bottom:1px solid #d9dee3",
+  footer: "color:#5b6b76;font-size:13px",
+} as const;
+
 /** Plain text and HTML of the same content. */
 function render(content: Paragraphs): { text: string; html: string } {
   const text: string[] = [content.heading, ""];
@@ -34,18 +47,18 @@ function render(content: Paragraphs): { text: string; html: string } {
   }
   if (content.link) text.push(`${content.link.label}: ${content.link.url}`, "");
   if (content.footer) text.push(content.footer);
-  const cell = (tag: "th" | "td", value: string) => `<${tag} style="text-align:left;padding:4px 10px;border-bottom:1px solid #d9dee3">${escapeHtml(value)}</${tag}>`;
+  const cell = (tag: "th" | "td", value: string) => `<${tag} style="${emailInlineStyles.cell}">${escapeHtml(value)}</${tag}>`;
   const html = [
-    `<!doctype html><html><body style="font-family:system-ui,sans-serif;color:#1d2a33;line-height:1.5">`,
-    `<h1 style="font-size:18px">${escapeHtml(content.heading)}</h1>`,
+    `<!doctype html><html><body style="${emailInlineStyles.body}">`,
+    `<h1 style="${emailInlineStyles.heading}">${escapeHtml(content.heading)}</h1>`,
     ...content.paragraphs.map((p) => `<p>${escapeHtml(p)}</p>`),
     content.table
-      ? `<table style="border-collapse:collapse;font-size:14px"><thead><tr>${content.table.head.map((h) => cell("th", h)).join("")}</tr></thead><tbody>${content.table.rows
+      ? `<table style="${emailInlineStyles.table}"><thead><tr>${content.table.head.map((h) => cell("th", h)).join("")}</tr></thead><tbody>${content.table.rows
           .map((row) => `<tr>${row.map((v) => cell("td", v)).join("")}</tr>`)
           .join("")}</tbody></table>`
       : "",
     content.link ? `<p><a href="${escapeHtml(content.link.url)}">${escapeHtml(content.link.label)}</a></p>` : "",
-    content.footer ? `<p style="color:#5b6b76;font-size:13px">${escapeHtml(content.footer)}</p>` : "",
+    content.footer ? `<p style="${emailInlineStyles.footer}">${escapeHtml(content.footer)}</p>` : "",
     `</body></html>`,
   ].join("\n");
   return { text: text.join("\n").trimEnd() + "\n", html };
