@@ -150,8 +150,63 @@ export const commonPasswords: readonly string[] = [
 ];
 
 /**
+ * Words that common passwords are built on: a password that is one of them (or one
+ * repeated) with only digits and symbols around it is refused like a listed one
+ * ("Password2025!", "!!welcome123"). Our own list, compared after lower-casing.
+ */
+export const commonPasswordWords: readonly string[] = [
+  "password",
+  "passw0rd",
+  "p@ssw0rd",
+  "qwerty",
+  "qwertyuiop",
+  "asdfgh",
+  "zxcvbn",
+  "letmein",
+  "welcome",
+  "iloveyou",
+  "admin",
+  "administrator",
+  "changeme",
+  "secret",
+  "sunshine",
+  "football",
+  "baseball",
+  "monkey",
+  "dragon",
+  "princess",
+  "starwars",
+  "superman",
+  "whatever",
+  "trustno1",
+  "summer",
+  "winter",
+  "spring",
+  "autumn",
+  "tributary",
+  "abc",
+  "abcdef",
+];
+
+/** The password's letters without the digits and symbols around them, or null when nothing is left. */
+function coreWord(lower: string): string | null {
+  const core = lower.replace(/^[^a-z]+/, "").replace(/[^a-z]+$/, "");
+  return core === "" ? null : core;
+}
+
+/** "dragondragon", "abcabc": one word (or chunk) repeated. */
+function repeatsOf(core: string, word: string): boolean {
+  return core.length % word.length === 0 && word.repeat(core.length / word.length) === core;
+}
+
+/** Fewest different characters a password must use (common practice against "aaaaaaaaaaaa" and "abababababab"). */
+export const PASSWORD_MIN_DISTINCT_CHARACTERS = 5;
+
+/**
  * What is wrong with a password for this e-mail address (empty when none): at least 12
- * characters, not the e-mail address (or its part before @), not a common password.
+ * characters, not the e-mail address (or its part before @), not a common password nor
+ * a common word with digits and symbols around it, and not just a few characters repeated.
+ * Every place that sets a password checks it with this function.
  */
 export function passwordProblems(password: string, email: string): string[] {
   const problems: string[] = [];
@@ -161,7 +216,12 @@ export function passwordProblems(password: string, email: string): string[] {
   const address = email.trim().toLowerCase();
   const local = address.split("@")[0] ?? "";
   if (lower === address || (local.length > 0 && lower === local)) problems.push("Do not use your e-mail address as the password");
-  if (commonPasswords.includes(lower)) problems.push("This password is too common; choose another");
+  const core = coreWord(lower);
+  if (commonPasswords.includes(lower) || (core !== null && commonPasswordWords.some((word) => repeatsOf(core, word)))) {
+    problems.push("This password is too common; choose another");
+  } else if (new Set(Array.from(password)).size < PASSWORD_MIN_DISTINCT_CHARACTERS && password.length > 0) {
+    problems.push(`Use at least ${PASSWORD_MIN_DISTINCT_CHARACTERS} different characters`);
+  }
   return problems;
 }
 

@@ -14,7 +14,8 @@ import {
   type InvitationLookup,
   type Person,
 } from "@tributary/contracts";
-import { anyone, defineRoute, markets, signedIn } from "../access/route-table";
+import type { RequestHandler } from "express";
+import { anyone, defineRoute, markets, signedIn, type AppDeps } from "../access/route-table";
 import { currentUserOf, setSessionCookie } from "../auth/session";
 import { auditLog, users } from "../db/schema";
 import { RateLimited } from "../http/errors";
@@ -25,17 +26,26 @@ import { listPeople, updatePerson } from "../people/people";
 
 const admins = ["admin"] as const;
 
-/** Accepting sets a password (an argon2 hash each time): a few tries per client per quarter hour. */
-const acceptLimit = () => [
-  rateLimit({
-    windowMs: 15 * 60_000,
-    limit: 20,
-    standardHeaders: "draft-8",
-    legacyHeaders: false,
-    keyGenerator: (req) => ipKeyGenerator(req.ip ?? ""),
-    handler: (_req, _res, next) => next(new RateLimited("Too many attempts to accept an invitation. Wait 15 minutes and try again")),
-  }),
-];
+/**
+ * The invitation page (looking a token up, accepting it: an argon2 hash each time): 20
+ * tries per client per quarter hour, counted together for both routes of one app.
+ */
+const invitationPageLimits = new WeakMap<AppDeps, RequestHandler>();
+const acceptLimit = (deps: AppDeps): RequestHandler[] => {
+  let limit = invitationPageLimits.get(deps);
+  if (!limit) {
+    limit = rateLimit({
+      windowMs: 15 * 60_000,
+      limit: 20,
+      standardHeaders: "draft-8",
+      legacyHeaders: false,
+      keyGenerator: (req) => ipKeyGenerator(req.ip ?? ""),
+      handler: (_req, _res, next) => next(new RateLimited("Too many attempts to accept an invitation. Wait 15 minutes and try again")),
+    });
+    invitationPageLimits.set(deps, limit);
+  }
+  return [limit];
+};
 
 export const peopleRoutes = [
   defineRoute({
