@@ -10,12 +10,14 @@ type AppShellProps = {
   navigation: NavigationSection[];
   homeHref: string;
   onSignOut: () => void;
+  /** Ends the user's sessions on every device. */
+  onSignOutEverywhere?: () => void;
   signingOut?: boolean;
   busy?: boolean;
   children: ReactNode;
 };
 
-export function AppShell({ user, navigation, homeHref, onSignOut, signingOut = false, busy = false, children }: AppShellProps) {
+export function AppShell({ user, navigation, homeHref, onSignOut, onSignOutEverywhere, signingOut = false, busy = false, children }: AppShellProps) {
   return (
     <div className="flex min-h-screen">
       <a
@@ -78,6 +80,17 @@ export function AppShell({ user, navigation, homeHref, onSignOut, signingOut = f
             >
               {signingOut ? "Signing out…" : "Sign out"}
             </button>
+            {onSignOutEverywhere ? (
+              <button
+                type="button"
+                onClick={onSignOutEverywhere}
+                disabled={signingOut}
+                title="Ends your sessions in every browser and on every device"
+                className="mt-1.5 block w-full rounded-md px-3 py-1 text-caption text-ink-200 underline-offset-2 hover:text-white hover:underline disabled:opacity-60"
+              >
+                Sign out everywhere
+              </button>
+            ) : null}
           </section>
         </div>
       </header>

@@ -36,6 +36,7 @@ function SignedInApp({ user }: { user: CurrentUser }) {
   const navigation = useNavigation();
   const location = useLocation();
   const signOut = useSignOut({ onSuccess: () => navigate(paths.auth.signIn.getHref(), { replace: true }) });
+  const signOutEverywhere = useSignOut({ everywhere: true, onSuccess: () => navigate(paths.auth.signIn.getHref(), { replace: true }) });
   const scopeLabel = useMarketScopeLabel(user);
 
   // Move focus to the new screen so keyboard and screen-reader users start at its top;
@@ -52,12 +53,13 @@ function SignedInApp({ user }: { user: CurrentUser }) {
       navigation={navigationFor(user.role)}
       homeHref={paths.app[homeScreenFor(user.role)].getHref()}
       onSignOut={() => signOut.mutate()}
-      signingOut={signOut.isPending}
+      onSignOutEverywhere={() => signOutEverywhere.mutate()}
+      signingOut={signOut.isPending || signOutEverywhere.isPending}
       busy={navigation.state === "loading"}
     >
-      {signOut.isError ? (
+      {signOut.isError || signOutEverywhere.isError ? (
         <p role="alert" className="mb-4 rounded-md bg-alert-100 px-3 py-2 text-small text-alert-700">
-          Signing out failed: {signOut.error.message}
+          Signing out failed: {(signOut.error ?? signOutEverywhere.error)?.message}
         </p>
       ) : null}
       <Suspense fallback={<LoadingState />}>
