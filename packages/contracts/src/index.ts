@@ -1,3 +1,4 @@
+import "./messages";
 export * from "./roles";
 export * from "./errors";
 export * from "./auth";

@@ -34,11 +34,13 @@ export const planBounds = {
 } as const;
 
 const userRefSchema = z.object({ id: z.string(), name: z.string() });
-const finite = (what: string) => z.number(`Enter ${what} as a number`).refine(Number.isFinite, `${what} must be a finite number`);
+/** "The total budget" inside a sentence: "Enter the total budget as a number". */
+const inSentence = (what: string) => what.charAt(0).toLowerCase() + what.slice(1);
+const finite = (what: string) => z.number(`Enter ${inSentence(what)} as a number`).refine(Number.isFinite, `${what} must be a finite number`);
 const nonNegative = (what: string) => finite(what).refine((x) => x >= 0, `${what} cannot be negative`);
 const weeksField = (what: string, bounds: { min: number; max: number }) =>
   z
-    .number(`Enter ${what} as a whole number of weeks`)
+    .number(`Enter ${inSentence(what)} as a whole number of weeks`)
     .int(`${what} must be a whole number of weeks`)
     .min(bounds.min, `${what} must be at least ${bounds.min} week`)
     .max(bounds.max, `${what} must be at most ${bounds.max} weeks`);
