@@ -1,12 +1,15 @@
 // Starts Tributary: opens (or creates) the database, seeds the demo into an empty one,
 // serves the API and the built web app. Settings come from the environment (README).
-import { existsSync } from "node:fs";
+import { existsSync, mkdirSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { appDeps, createApp, shutdownApp } from "./app";
+import { acquireDataDirLock, DataDirLocked } from "./backup/data-dir-lock";
+import { tableRowCounts, unopenableMessage } from "./backup/integrity";
+import { holdingObserver, testHoldFromEnv } from "./backup/test-hold";
 import { publishedRunIds } from "./dashboards/dashboard-context";
 import { demoFitModeFromEnv, queueDemoFit, resumeDemoFit } from "./demo/demo-fit";
 import { configFromEnv, repoRoot } from "./config";
-import { closeDatabase, createDatabase } from "./db/client";
+import { closeDatabase, createDatabase, type Database } from "./db/client";
 import { seedDemo } from "./demo/seed-demo";
 import { markInterruptedRuns } from "./runs/run-service";
 
@@ -19,7 +22,20 @@ async function main(): Promise<void> {
   const config = configFromEnv(process.env, webDistDir);
   const demoFit = demoFitModeFromEnv(process.env);
 
-  const db = await createDatabase({ dataDir });
+  const hold = testHoldFromEnv(process.env);
+
+  // One process per data directory: a second server (or a backup, a restore) would overwrite its files.
+  mkdirSync(dataDir, { recursive: true });
+  const lock = acquireDataDirLock(dataDir, "server");
+  process.once("exit", () => lock.release());
+  let db: Database;
+  try {
+    db = await createDatabase({ dataDir, onQuery: hold ? holdingObserver(hold) : undefined });
+    // Every table is read once, so damaged files stop the start with a clear message rather than a later request.
+    await tableRowCounts(db.$client);
+  } catch (error) {
+    throw new Error(unopenableMessage(dataDir, error));
+  }
   const seed = await seedDemo(db);
   if (seed.seeded) console.log(`Created the demo workspace in ${dataDir}`);
   const interrupted = await markInterruptedRuns(db);
@@ -57,6 +73,6 @@ async function main(): Promise<void> {
 }
 
 main().catch((error: unknown) => {
-  console.error(error instanceof Error ? error.message : error);
+  console.error(error instanceof DataDirLocked ? `Tributary did not start: ${error.message}` : error instanceof Error ? error.message : error);
   process.exit(1);
 });

@@ -1,7 +1,9 @@
 // Builds the database: PGlite (embedded Postgres) behind Drizzle, migrated on start.
-import { mkdirSync } from "node:fs";
+import { fsyncSync, mkdirSync } from "node:fs";
 import { fileURLToPath } from "node:url";
-import { PGlite } from "@electric-sql/pglite";
+import { PGlite, type PGliteOptions } from "@electric-sql/pglite";
+import { amcheck } from "@electric-sql/pglite/contrib/amcheck";
+import { NodeFS } from "@electric-sql/pglite/nodefs";
 import { drizzle, type PgliteDatabase } from "drizzle-orm/pglite";
 import { migrate } from "drizzle-orm/pglite/migrator";
 import * as schema from "./schema";
@@ -17,12 +19,63 @@ export interface DatabaseOptions {
   dataDir?: string;
   /** A data directory dumped with `dumpDataDir` to start from (tests clone a migrated, seeded database). */
   snapshot?: Blob;
+  /** Called with every SQL statement before it runs (the server's test hook, see backup/test-hold.ts). */
+  onQuery?: (sql: string) => void;
+  /** Loads the amcheck extension so indexes and tables can be verified (backup/integrity.ts). */
+  integrityChecks?: boolean;
+}
+
+interface NodeFsModule {
+  NODEFS?: { stream_ops?: { fsync?: (stream: { nfd?: number }) => number } };
+}
+
+/**
+ * PGlite's on-disk file system with a working fsync. Out of the box PGlite starts
+ * Postgres with fsync off and its file layer ignores fsync, so a commit reaches the
+ * kernel (it survives the process being killed) but not the disk (a power cut may lose
+ * it or tear the files). This layer makes fsync reach the disk; `durableStartParams`
+ * turn Postgres's fsync back on.
+ */
+class DurableNodeFS extends NodeFS {
+  override async init(...args: Parameters<NodeFS["init"]>): ReturnType<NodeFS["init"]> {
+    const result = await super.init(...args);
+    const opts = result.emscriptenOpts as { preRun?: ((mod: NodeFsModule) => void)[] };
+    opts.preRun = [
+      ...(opts.preRun ?? []),
+      (mod) => {
+        const ops = mod.NODEFS?.stream_ops;
+        if (!ops) throw new Error("PGlite's file layer has changed (no NODEFS stream operations): update db/client.ts");
+        ops.fsync = (stream) => {
+          if (stream.nfd !== undefined) fsyncSync(stream.nfd);
+          return 0;
+        };
+      },
+    ];
+    return result;
+  }
+}
+
+/** PGlite's defaults with fsync on; WAL flushed with fsync (its fdatasync does nothing). */
+export const durableStartParams = [...PGlite.defaultStartParams.filter((param) => param !== "-F"), "-c", "wal_sync_method=fsync"];
+
+/** Opens PGlite on a data directory (durable writes) or in memory, without migrating. */
+export async function openClient(options: Pick<DatabaseOptions, "dataDir" | "snapshot" | "integrityChecks"> = {}): Promise<PGlite> {
+  const pgOptions: PGliteOptions = { loadDataDir: options.snapshot };
+  if (options.integrityChecks) pgOptions.extensions = { amcheck };
+  if (options.dataDir) {
+    mkdirSync(options.dataDir, { recursive: true });
+    pgOptions.fs = new DurableNodeFS(options.dataDir);
+    pgOptions.startParams = durableStartParams;
+  }
+  const client = new PGlite(pgOptions);
+  await client.waitReady;
+  return client;
 }
 
 export async function createDatabase(options: DatabaseOptions = {}): Promise<Database> {
-  if (options.dataDir) mkdirSync(options.dataDir, { recursive: true });
-  const client = new PGlite({ dataDir: options.dataDir, loadDataDir: options.snapshot });
-  const db = drizzle({ client, schema });
+  const client = await openClient(options);
+  const onQuery = options.onQuery;
+  const db = drizzle({ client, schema, logger: onQuery ? { logQuery: (query) => onQuery(query) } : false });
   await migrate(db, { migrationsFolder });
   return db;
 }
