@@ -11,6 +11,7 @@ import { defaultConfig, type AppConfig } from "./config";
 import type { Database } from "./db/client";
 import { apiNotFound, errorHandler } from "./http/error-handler";
 import { createLogger, requestLogger } from "./http/request-log";
+import { refuseUnstorableText } from "./http/request-text";
 import { securityHeaders } from "./http/security-headers";
 import type { Mailer } from "./mail/mailer";
 import { createMailer } from "./mail/smtp";
@@ -79,7 +80,7 @@ export function createApp(options: CreateAppOptions): Express {
   app.use(securityHeaders());
 
   // Writes from another site are refused before anything is read; with a session they need its token.
-  app.use("/api", sameSiteWrites, express.json({ limit: "1mb" }), authenticate(deps.auth, deps.db), sessionTokenOnWrites);
+  app.use("/api", sameSiteWrites, express.json({ limit: "1mb" }), refuseUnstorableText, authenticate(deps.auth, deps.db), sessionTokenOnWrites);
   app.use(mountRoutes(options.routes ?? routeTable, deps));
   app.use("/api", apiNotFound);
 

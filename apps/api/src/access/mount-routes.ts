@@ -3,6 +3,7 @@
 import { Router, type Request, type RequestHandler } from "express";
 import { roleLabels } from "@tributary/contracts";
 import { Forbidden, NotFound, Unauthenticated } from "../http/errors";
+import { checkPathText } from "../http/request-text";
 import { allowedMarkets } from "./market-scope";
 import type { AppDeps, MarketRule, MarketScope, PublicContext, Route, SignedInContext } from "./route-table";
 
@@ -46,12 +47,17 @@ async function narrowScope(rule: MarketRule, allowed: MarketScope, req: Request,
 function authorize(route: Route, deps: AppDeps): RequestHandler {
   const access = route.access;
   return async (req, _res, next) => {
-    if (access.kind === "public") return next();
+    if (access.kind === "public") {
+      checkPathText(req);
+      return next();
+    }
     const user = req.auth?.user;
     if (!user) throw new Unauthenticated();
     if (access.roles !== "any" && !access.roles.includes(user.role)) {
       throw new Forbidden(`${roleLabels[user.role]}s cannot do this`);
     }
+    // Before any rule reads the path (a resolve rule queries the database with it).
+    checkPathText(req);
     req.scope = await narrowScope(access.markets, await allowedMarkets(deps.db, user), req, deps);
     next();
   };

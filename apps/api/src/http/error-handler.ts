@@ -45,6 +45,15 @@ export const apiNotFound: RequestHandler = (req, _res, next) => {
   next(new NotFound(`Nothing at ${req.method} ${req.originalUrl.split("?")[0]}`));
 };
 
+/** Messages may quote what was sent (an id, a name); a long quote is cut so the answer stays readable. */
+export const MAX_MESSAGE_LENGTH = 500;
+const MAX_ISSUE_MESSAGE_LENGTH = 300;
+
+function shortened(text: string, max: number): string {
+  const chars = Array.from(text);
+  return chars.length <= max ? text : `${chars.slice(0, max - 1).join("")}…`;
+}
+
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   const known =
     err instanceof HttpError ? err : err instanceof ZodError ? invalidFromZod(err) : fromFrameworkError(err);
@@ -53,7 +62,8 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   let status: number;
   if (known) {
     status = known.status;
-    body = { error: { code: known.code, message: known.message, ...(known.issues ? { issues: [...known.issues] } : {}), requestId } };
+    const issues = known.issues?.map((issue) => ({ path: shortened(issue.path, MAX_ISSUE_MESSAGE_LENGTH), message: shortened(issue.message, MAX_ISSUE_MESSAGE_LENGTH) }));
+    body = { error: { code: known.code, message: shortened(known.message, MAX_MESSAGE_LENGTH), ...(issues ? { issues } : {}), requestId } };
   } else {
     status = 500;
     req.log?.error({ err: safeErrorForLog(err) }, "unhandled error");

@@ -10,7 +10,7 @@ import type { Queryable } from "../db/client";
 import { datasetVersionExists, loadPortfolioData } from "../datasets/dataset-queries";
 import { auditLog, brands, cells, channels, liftTests, markets as marketTable, users } from "../db/schema";
 import { NotFound } from "../http/errors";
-import { csvUpload } from "../uploads/csv-upload";
+import { csvUpload, decodeUploadedBytes } from "../uploads/csv-upload";
 import { invalidFromReport } from "../uploads/report-error";
 
 const intakeRoles = ["analyst", "admin"] as const;
@@ -97,7 +97,7 @@ export const liftTestRoutes = [
       let source: "csv" | "json";
       if (req.file) {
         source = "csv";
-        const text = new TextDecoder("utf-8").decode(req.file.buffer);
+        const text = decodeUploadedBytes(req.file.buffer);
         const parsed = parseLiftTestsCsv(text, data, { maxBytes: config.uploadMaxBytes });
         if (!parsed.ok) throw invalidFromReport("The lift tests were not saved", parsed.report);
         tests = parsed.tests;
