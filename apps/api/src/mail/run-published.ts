@@ -5,6 +5,7 @@
 import { and, asc, eq, inArray, isNotNull } from "drizzle-orm";
 import type { Logger } from "pino";
 import type { Database } from "../db/client";
+import { safeErrorForLog } from "../http/error-handler";
 import { markets, userMarkets, users } from "../db/schema";
 import { runRecord } from "../runs/run-queries";
 import { runResultsFor } from "../runs/run-results";
@@ -60,6 +61,7 @@ export async function notifyRunPublished(db: Database, mailer: Mailer, runId: st
   try {
     for (const message of await runPublishedMessages(db, runId, baseUrl)) await mailer.send(message);
   } catch (error) {
-    log?.error({ err: error, runId }, "the e-mails about a published run could not all be sent");
+    // The error's kind and first line only: a failed insert would quote the message (with its numbers).
+    log?.error({ err: safeErrorForLog(error), runId }, "the e-mails about a published run could not all be sent");
   }
 }

@@ -17,6 +17,7 @@ import type { MarketScope } from "../access/route-table";
 import type { AppConfig } from "../config";
 import type { Database, Queryable } from "../db/client";
 import { auditLog, markets, plans, users, workspaceSettings } from "../db/schema";
+import { safeErrorForLog } from "../http/error-handler";
 import { Conflict, Forbidden, Invalid } from "../http/errors";
 import type { Mailer } from "../mail/mailer";
 import { appBaseUrl, planDecidedMessage, planSubmittedMessage, type PlanMailFacts } from "../mail/messages";
@@ -204,7 +205,7 @@ async function sendAll(ctx: MailContext, messages: Parameters<Mailer["send"]>[0]
     try {
       await ctx.mailer.send(message);
     } catch (error) {
-      (ctx.log ?? ctx.req.log)?.error({ err: error, kind: message.kind }, "e-mail delivery failed");
+      (ctx.log ?? ctx.req.log)?.error({ err: safeErrorForLog(error), kind: message.kind }, "e-mail delivery failed");
     }
   }
 }
