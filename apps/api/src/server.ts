@@ -1,9 +1,10 @@
 // Starts Tributary: opens (or creates) the database, seeds the demo into an empty one,
 // serves the API and the built web app. Settings come from the environment (README).
 import { existsSync, mkdirSync } from "node:fs";
-import { join, resolve } from "node:path";
+import { join } from "node:path";
 import { appDeps, createApp, shutdownApp } from "./app";
 import { acquireDataDirLock, DataDirLocked } from "./backup/data-dir-lock";
+import { dataDirFromEnv } from "./backup/data-dir";
 import { tableRowCounts, unopenableMessage } from "./backup/integrity";
 import { holdingObserver, testHoldFromEnv } from "./backup/test-hold";
 import { publishedRunIds } from "./dashboards/dashboard-context";
@@ -16,7 +17,7 @@ import { markInterruptedRuns } from "./runs/run-service";
 async function main(): Promise<void> {
   const port = Number(process.env.PORT || 3000);
   if (!Number.isInteger(port) || port < 0 || port > 65_535) throw new Error(`PORT must be a port number, got "${process.env.PORT}"`);
-  const dataDir = resolve(process.env.DATA_DIR || join(repoRoot, ".data", "tributary"));
+  const dataDir = dataDirFromEnv(process.env);
   const webDist = join(repoRoot, "apps", "web", "dist");
   const webDistDir = existsSync(join(webDist, "index.html")) ? webDist : null;
   const config = configFromEnv(process.env, webDistDir);

@@ -2,7 +2,7 @@
 // opening the same files (two would overwrite each other's pages), so the server, the
 // backup and the restore commands each take this lock file first. A lock left by a
 // process that died (killed, machine restarted) is taken over.
-import { closeSync, existsSync, openSync, readFileSync, unlinkSync, writeSync } from "node:fs";
+import { closeSync, existsSync, openSync, readFileSync, unlinkSync, writeFileSync, writeSync } from "node:fs";
 import { hostname } from "node:os";
 import { join } from "node:path";
 
@@ -111,6 +111,8 @@ export interface DataDirLock {
   readonly path: string;
   /** Removes the lock file if it is still this process's. Safe to call more than once. */
   release(): void;
+  /** Writes this process's lock file again (after something replaced the directory's files). */
+  refresh(): void;
 }
 
 /**
@@ -144,6 +146,9 @@ export function acquireDataDirLock(dataDir: string, purpose: string): DataDirLoc
           if (released) return;
           released = true;
           if (parseOwner(readOrNull(path))?.pid === process.pid) unlinkSync(path);
+        },
+        refresh: () => {
+          if (!released) writeFileSync(path, text);
         },
       };
     } catch (error) {

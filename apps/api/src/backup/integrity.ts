@@ -135,6 +135,6 @@ export function unopenableMessage(dataDir: string, error: unknown): string {
   return [
     `Tributary did not start: the database in ${dataDir} cannot be opened or read (${cause}).`,
     "Its files may be damaged (a disk problem, a power cut, or files changed by hand). Nothing was changed.",
-    `To go back to your latest backup: stop every Tributary process, move ${dataDir} aside, then run \`pnpm restore <backup file>\` with DATA_DIR=${dataDir} (see apps/api/README.md, "Backup and restore").`,
+    `To go back to your latest backup, stop every Tributary process and run \`DATA_DIR=${dataDir} pnpm restore <backup file> --force\`: the damaged directory is kept beside it, renamed (see apps/api/README.md, "Backup and restore").`,
   ].join("\n");
 }

@@ -23,6 +23,8 @@ export interface DatabaseOptions {
   onQuery?: (sql: string) => void;
   /** Loads the amcheck extension so indexes and tables can be verified (backup/integrity.ts). */
   integrityChecks?: boolean;
+  /** With a data directory: fsync reaches the disk (default true). The restore loads without and syncs once at the end. */
+  durable?: boolean;
 }
 
 interface NodeFsModule {
@@ -59,13 +61,17 @@ class DurableNodeFS extends NodeFS {
 export const durableStartParams = [...PGlite.defaultStartParams.filter((param) => param !== "-F"), "-c", "wal_sync_method=fsync"];
 
 /** Opens PGlite on a data directory (durable writes) or in memory, without migrating. */
-export async function openClient(options: Pick<DatabaseOptions, "dataDir" | "snapshot" | "integrityChecks"> = {}): Promise<PGlite> {
+export async function openClient(options: Pick<DatabaseOptions, "dataDir" | "snapshot" | "integrityChecks" | "durable"> = {}): Promise<PGlite> {
   const pgOptions: PGliteOptions = { loadDataDir: options.snapshot };
   if (options.integrityChecks) pgOptions.extensions = { amcheck };
   if (options.dataDir) {
     mkdirSync(options.dataDir, { recursive: true });
-    pgOptions.fs = new DurableNodeFS(options.dataDir);
-    pgOptions.startParams = durableStartParams;
+    if (options.durable === false) {
+      pgOptions.dataDir = options.dataDir;
+    } else {
+      pgOptions.fs = new DurableNodeFS(options.dataDir);
+      pgOptions.startParams = durableStartParams;
+    }
   }
   const client = new PGlite(pgOptions);
   await client.waitReady;
