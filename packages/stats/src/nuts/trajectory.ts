@@ -42,11 +42,14 @@ export class TrajectoryBuilder {
   divergent = false;
   /** log Σ exp(H0 − H) over the subtree most recently built. */
   subtreeLogWeight = Number.NEGATIVE_INFINITY;
+  /** Position of the leapfrog point whose energy error first exceeded the limit (valid while `divergent`). */
+  readonly divergencePoint: Float64Array;
 
   constructor(model: DensityModel, maxTreeDepth: number) {
     this.model = model;
     this.dimension = model.dimension;
     this.inverseMetric = new Float64Array(model.dimension);
+    this.divergencePoint = new Float64Array(model.dimension);
     for (let depth = 0; depth < maxTreeDepth; depth++) {
       const n = model.dimension;
       this.frames.push({
@@ -140,7 +143,10 @@ export class TrajectoryBuilder {
     this.leapfrogSteps++;
     let energy = z.kinetic - z.logDensity;
     if (Number.isNaN(energy)) energy = Number.POSITIVE_INFINITY;
-    if (energy - this.initialEnergy > this.maxEnergyError) this.divergent = true;
+    if (energy - this.initialEnergy > this.maxEnergyError) {
+      this.divergent = true;
+      this.divergencePoint.set(z.q);
+    }
     const logWeight = this.initialEnergy - energy;
     this.subtreeLogWeight = logWeight;
     this.sumAcceptProbability += logWeight > 0 ? 1 : Math.exp(logWeight);

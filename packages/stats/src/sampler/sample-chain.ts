@@ -7,7 +7,15 @@ import { createNutsInfo, createNutsState, NutsWorkspace, nutsTransition, type Nu
 import { createPhasePoint } from "../nuts/phase-point";
 import { createRandomSource } from "../rng/create-random-source";
 import { findInitialPoint } from "./initial-point";
-import { resolveSamplerSettings, type ChainProgress, type ChainResult, type SamplerHooks, type SamplerSettings } from "./sampler-settings";
+import {
+  MAX_DIVERGENCE_RECORDS,
+  resolveSamplerSettings,
+  type ChainProgress,
+  type ChainResult,
+  type DivergenceRecord,
+  type SamplerHooks,
+  type SamplerSettings,
+} from "./sampler-settings";
 
 /**
  * Runs one chain: initialisation, windowed warm-up (dual-averaging step size and diagonal
@@ -60,6 +68,8 @@ export function sampleChain(model: DensityModel, settings: SamplerSettings, chai
   let warmupDivergences = 0;
   let samplingDivergences = 0;
   let cancelled = false;
+  const divergences: DivergenceRecord[] | undefined = s.recordDivergences ? [] : undefined;
+  const start = new Float64Array(n);
 
   for (let iteration = 0; iteration < total; iteration++) {
     if (hooks.shouldStop?.() === true) {
@@ -67,11 +77,18 @@ export function sampleChain(model: DensityModel, settings: SamplerSettings, chai
       break;
     }
     const warming = iteration < s.warmup;
+    if (divergences !== undefined) start.set(state.position);
+    const stepSize = nuts.stepSize;
     nutsTransition(workspace, state, rng, nuts, next, info);
     gradientEvaluations += info.leapfrogSteps;
     const swap = state;
     state = next;
     next = swap;
+    if (divergences !== undefined && info.divergent && divergences.length < MAX_DIVERGENCE_RECORDS) {
+      const startConstrained = new Float64Array(width);
+      model.constrain(start, startConstrained);
+      divergences.push({ iteration, phase: warming ? "warmup" : "sampling", stepSize, start: start.slice(), startConstrained, end: workspace.builder.divergencePoint.slice() });
+    }
 
     if (warming) {
       if (info.divergent) warmupDivergences++;
@@ -138,6 +155,7 @@ export function sampleChain(model: DensityModel, settings: SamplerSettings, chai
     maxTreeDepth: s.maxTreeDepth,
     seconds: (now() - started) / 1000,
     cancelled,
+    ...(divergences === undefined ? {} : { divergences }),
   };
 }
 

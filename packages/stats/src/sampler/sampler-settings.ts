@@ -11,6 +11,11 @@ export interface SamplerSettings {
   thin?: number;
   /** Random starting points are uniform(−initRadius, initRadius) on the unconstrained scale; 2 by default. */
   initRadius?: number;
+  /**
+   * Diagnostics only: keep where each divergent transition started and where its energy
+   * error blew up (ChainResult.divergences), up to 1000 per chain. Off by default.
+   */
+  recordDivergences?: boolean;
 }
 
 export const defaultSamplerSettings: Readonly<SamplerSettings> = Object.freeze({
@@ -22,6 +27,7 @@ export const defaultSamplerSettings: Readonly<SamplerSettings> = Object.freeze({
   targetAcceptance: 0.8,
   thin: 1,
   initRadius: 2,
+  recordDivergences: false,
 });
 
 export interface ChainProgress {
@@ -32,6 +38,23 @@ export interface ChainProgress {
   /** Divergent transitions so far in the current phase. */
   divergences: number;
 }
+
+/** One divergent transition, kept when `recordDivergences` is on. */
+export interface DivergenceRecord {
+  /** 0-based iteration of the chain (warm-up included). */
+  iteration: number;
+  phase: "warmup" | "sampling";
+  stepSize: number;
+  /** Unconstrained position the trajectory started from. */
+  start: Float64Array;
+  /** Constrained quantities at the start, in the order of `names`. */
+  startConstrained: Float64Array;
+  /** Unconstrained position of the leapfrog point whose energy error exceeded the limit. */
+  end: Float64Array;
+}
+
+/** Most divergences kept per chain when recording. */
+export const MAX_DIVERGENCE_RECORDS = 1000;
 
 export interface ChainResult {
   chain: number;
@@ -55,6 +78,8 @@ export interface ChainResult {
   maxTreeDepth?: number;
   seconds: number;
   cancelled: boolean;
+  /** Divergent transitions with their positions, when `recordDivergences` was on. */
+  divergences?: DivergenceRecord[];
 }
 
 export interface SamplerHooks {
@@ -83,6 +108,9 @@ export function resolveSamplerSettings(settings: SamplerSettings): Required<Samp
     problems.push(`targetAcceptance must be a number strictly between 0 and 1, got ${String(target)}`);
   }
   if (s.thin !== undefined) integer("thin", 1, 1_000_000);
+  if (s.recordDivergences !== undefined && typeof s.recordDivergences !== "boolean") {
+    problems.push(`recordDivergences must be true or false, got ${String(s.recordDivergences)}`);
+  }
   const radius = s.initRadius;
   if (radius !== undefined && (typeof radius !== "number" || !(radius > 0) || !Number.isFinite(radius))) {
     problems.push(`initRadius must be a positive finite number, got ${String(radius)}`);
@@ -97,5 +125,6 @@ export function resolveSamplerSettings(settings: SamplerSettings): Required<Samp
     targetAcceptance: settings.targetAcceptance,
     thin: settings.thin ?? 1,
     initRadius: settings.initRadius ?? 2,
+    recordDivergences: settings.recordDivergences ?? false,
   };
 }
