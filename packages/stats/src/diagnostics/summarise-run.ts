@@ -49,6 +49,8 @@ export interface SummariseOptions {
   thresholds?: Partial<TrustThresholds>;
   /** Only summarise these parameter names (default: all). */
   names?: readonly string[];
+  /** Target acceptance the chains ran with, for the advice on divergences (see TrustInput). */
+  targetAcceptance?: number;
 }
 
 /**
@@ -102,6 +104,7 @@ export function summariseRun(chains: readonly ChainResult[], options: SummariseO
       divergences,
       draws: length * withDraws.length,
       cancelled: chains.some((c) => c.cancelled),
+      targetAcceptance: options.targetAcceptance,
     },
     thresholds,
   );

@@ -15,7 +15,16 @@ export interface TrustInput {
   divergences: number;
   draws: number;
   cancelled: boolean;
+  /**
+   * Target acceptance of the step-size adaptation in the run that produced these draws
+   * (the lowest over the runs that diverged, when several are judged together); the advice
+   * on divergences depends on it. Unknown when absent.
+   */
+  targetAcceptance?: number;
 }
+
+/** Target acceptance from which a higher one is no longer the first advice on divergences (the inference defaults' retry value). */
+export const HIGH_TARGET_ACCEPTANCE = 0.9;
 
 /** Applies the trust rule and explains each failure in words a person can act on. */
 export function assessTrust(input: TrustInput, thresholds: TrustThresholds = defaultTrustThresholds): { trustworthy: boolean; reasons: string[] } {
@@ -40,9 +49,16 @@ export function assessTrust(input: TrustInput, thresholds: TrustThresholds = def
     );
   }
   if (input.divergences > thresholds.maxDivergences) {
+    const target = input.targetAcceptance;
+    const advice =
+      target !== undefined && target >= HIGH_TARGET_ACCEPTANCE
+        ? `the run already used target acceptance ${target}, so a smaller step did not remove them; what remains: ` +
+          "a longer warm-up, a check of the flagged cells' data (candidate outliers, very short series, spend that barely varies), " +
+          "or fewer pooling levels."
+        : `raise the target acceptance (e.g. ${HIGH_TARGET_ACCEPTANCE}${target !== undefined ? `; this run used ${target}` : ""}) or reparameterise.`;
     reasons.push(
       `${plural(input.divergences, "divergent transition")} after warm-up: the sampler could not follow the posterior's geometry, ` +
-        "so estimates may be biased; raise the target acceptance (e.g. 0.9) or reparameterise.",
+        `so estimates may be biased; ${advice}`,
     );
   }
   return { trustworthy: reasons.length === 0, reasons };

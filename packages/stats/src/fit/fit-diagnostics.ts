@@ -38,6 +38,12 @@ export interface CellRunSummary {
 
 const finite = (xs: readonly number[]): number[] => xs.filter((x) => !Number.isNaN(x));
 
+/** The lowest target acceptance among the cells whose kept run diverged (undefined when none did). */
+function divergedTarget(cells: readonly CellRunSummary[]): number | undefined {
+  const targets = cells.filter((c) => c.summary.diagnostics.divergences > 0).map((c) => c.run.targetAcceptance);
+  return targets.length > 0 ? Math.min(...targets) : undefined;
+}
+
 /**
  * Diagnostics of the no-pooling comparison (one run per cell) as one run: the trust rule
  * over every cell's parameters and the divergences of all cells together.
@@ -68,6 +74,7 @@ export function unpooledModelDiagnostics(cells: readonly CellRunSummary[], thres
       divergences,
       draws,
       cancelled: cells.some((c) => c.run.chains.some((chain) => chain.cancelled)),
+      targetAcceptance: divergedTarget(cells),
     },
     { ...defaultTrustThresholds, ...thresholds },
   );

@@ -117,7 +117,7 @@ async function fitUnpooled(data: PortfolioData, o: ResolvedFitOptions, runChains
       doneSampling[chain.chain] = doneSampling[chain.chain]! + sampling;
     }
     const cell = data.cells[g]!;
-    cells.push({ label: `cell ${g} (${cell.brand} × ${cell.market})`, summary: summariseRun(run.chains, { thresholds: o.trustThresholds }), run });
+    cells.push({ label: `cell ${g} (${cell.brand} × ${cell.market})`, summary: summariseRun(run.chains, { thresholds: o.trustThresholds, targetAcceptance: run.targetAcceptance }), run });
     runs.push(run);
   }
   return { cells, runs };
@@ -151,7 +151,7 @@ export async function fitPortfolio(data: PortfolioData, options: FitOptions = {}
     onProgress: (p, attempt) => hooks.onProgress?.({ model: "pooled", ...p, attempt }),
   });
   const pooledSeconds = (now() - pooledStart) / 1000;
-  const pooledSummary: RunSummary = summariseRun(pooledRun.chains, { thresholds: o.trustThresholds });
+  const pooledSummary: RunSummary = summariseRun(pooledRun.chains, { thresholds: o.trustThresholds, targetAcceptance: pooledRun.targetAcceptance });
   const pooled = new SummaryTable(pooledSummary.parameters);
 
   let unpooledSeconds = 0;

@@ -110,6 +110,19 @@ describe("summariseRun", () => {
     expect(() => summariseRun([fakeChain(0, 10, 1), { ...fakeChain(1, 10, 1), names: ["a", "c"] }])).toThrow(/different parameter names/);
   });
 
+  it("advises by the target acceptance already used when divergences remain", () => {
+    const input = { rhat: [{ name: "x", value: 1.001 }], essBulk: [{ name: "x", value: 1000 }], divergences: 3, draws: 4000, cancelled: false };
+    const first = assessTrust({ ...input, targetAcceptance: 0.8 }).reasons.join(" ");
+    expect(first).toMatch(/raise the target acceptance \(e\.g\. 0\.9; this run used 0\.8\)/);
+    const rerun = assessTrust({ ...input, targetAcceptance: 0.9 }).reasons.join(" ");
+    expect(rerun).toMatch(/already used target acceptance 0\.9/);
+    expect(rerun).toMatch(/longer warm-up/);
+    expect(rerun).not.toMatch(/raise the target acceptance/);
+    expect(assessTrust(input).reasons.join(" ")).toMatch(/raise the target acceptance \(e\.g\. 0\.9\)/);
+    const s = summariseRun([fakeChain(0, 500, 1, 0, 2), fakeChain(1, 500, 2)], { targetAcceptance: 0.95 });
+    expect(s.diagnostics.reasons.join(" ")).toMatch(/already used target acceptance 0\.95/);
+  });
+
   it("applies thresholds given by the caller", () => {
     const r = assessTrust({ rhat: [{ name: "x", value: 1.02 }], essBulk: [{ name: "x", value: 1000 }], divergences: 0, draws: 4000, cancelled: false }, {
       maxRhat: 1.05,

@@ -71,6 +71,9 @@ describe("unpooledModelDiagnostics", () => {
     expect(d.reasons[0]).toMatch(/^R-hat is above 1\.01 for 1 parameter \(worst: eta\[1,search\] at 1\.030\)/);
     expect(d.reasons[1]).toMatch(/^Bulk ESS is below 400 for 1 parameter \(lowest: eta\[1,search\] at 350\)/);
     expect(d.reasons[2]).toMatch(/^2 divergent transitions after warm-up/);
+    // the diverging cell was already rerun at 0.9: the advice says so instead of asking for 0.9
+    expect(d.reasons[2]).toMatch(/already used target acceptance 0\.9/);
+    expect(d.reasons[2]).not.toMatch(/raise the target acceptance/);
     expect(d.attempts).toBe(2);
     expect(d.targetAcceptance).toBe(0.9);
     expect(d.warnings).toContain(
