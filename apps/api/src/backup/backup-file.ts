@@ -195,7 +195,7 @@ export async function createBackup(dataDir: string, file: string, options: { for
 
 export interface ReadBackup {
   readonly manifest: BackupManifest;
-  readonly payload: Uint8Array;
+  readonly payload: Uint8Array<ArrayBuffer>;
 }
 
 /** Reads and checks a backup file: its kind, its manifest, the payload's length and checksum. */
@@ -218,7 +218,7 @@ export function readBackupFile(file: string): ReadBackup {
   } catch {
     throw new BackupRefused(`${path} is damaged: its manifest cannot be read.`);
   }
-  const payload = new Uint8Array(bytes.buffer, bytes.byteOffset + manifestEnd + 1, bytes.length - manifestEnd - 1);
+  const payload = new Uint8Array(bytes.buffer as ArrayBuffer, bytes.byteOffset + manifestEnd + 1, bytes.length - manifestEnd - 1);
   if (payload.byteLength !== manifest.payload.bytes) {
     throw new BackupRefused(
       `${path} is damaged: it holds ${payload.byteLength} bytes of data where its manifest says ${manifest.payload.bytes}${payload.byteLength < manifest.payload.bytes ? " (the file was cut short)" : ""}.`,

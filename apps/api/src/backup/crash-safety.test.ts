@@ -5,7 +5,7 @@
 // sampling. After each kill the database must open, every table and index must verify,
 // a dataset version must be whole or absent, and the fit must be marked interrupted and
 // restart to completion.
-import { mkdtempSync, rmSync } from "node:fs";
+import { existsSync, mkdtempSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import type { PGlite } from "@electric-sql/pglite";
@@ -15,7 +15,7 @@ import { datasetVersionDetailSchema, datasetVersionSchema, runSchema, uploadCrea
 import { openClient } from "../db/client";
 import { demoUsers } from "../demo/users";
 import { quickFit, tinyCsv } from "../testing/fit-fixtures";
-import { acquireDataDirLock } from "./data-dir-lock";
+import { acquireDataDirLock, LOCK_FILE_NAME } from "./data-dir-lock";
 import { deepCheck } from "./integrity";
 import { ApiClient, pollUntil, spawnServer, type ServerProcess } from "./server-process";
 import { TEST_HOLD_LINE, TEST_HOLD_VARIABLE } from "./test-hold";
@@ -208,4 +208,16 @@ describe("the server killed with SIGKILL", () => {
       ]);
     });
   }, 360_000);
+
+  it("refuses to start on damaged files, saying what happened and how to restore a backup", async () => {
+    // Postgres's control file zeroed, as a disk fault might leave it.
+    const control = join(dataDir, "global", "pg_control");
+    writeFileSync(control, Buffer.alloc(statSync(control).size));
+    const server = start();
+    expect(await server.exited).toBe(1);
+    expect(server.output()).toMatch(/Tributary did not start: the database in .* cannot be opened or read \(.+\)\.\nIts files may be damaged/);
+    expect(server.output()).toMatch(/pnpm restore <backup file> --force/);
+    // The lock is released on the way out.
+    expect(existsSync(join(dataDir, LOCK_FILE_NAME))).toBe(false);
+  }, 120_000);
 });
