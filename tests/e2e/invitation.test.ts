@@ -89,7 +89,7 @@ describe("inviting someone", () => {
     expect(await navigationLabels(page)).toEqual(["Market desk", "Portfolio map", "Brand comparison", "Channel sheet", "Spend planner"]);
     await saveScreenshot(page, "invitation", "05-signed-in");
 
-    await page.getByRole("button", { name: "Sign out" }).click();
+    await page.getByRole("button", { name: "Sign out", exact: true }).click();
     await page.getByRole("heading", { name: "Sign in to Tributary" }).waitFor();
     await page.getByLabel("E-mail").fill(email);
     await page.getByLabel("Password").fill(password);

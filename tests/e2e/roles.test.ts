@@ -138,7 +138,7 @@ describe("sign-in and sign-out", () => {
     await page.getByRole("button", { name: "Sign in" }).click();
     await page.getByRole("heading", { level: 1, name: "Spend planner" }).waitFor();
 
-    await page.getByRole("button", { name: "Sign out" }).click();
+    await page.getByRole("button", { name: "Sign out", exact: true }).click();
     await page.getByRole("heading", { name: "Sign in to Tributary" }).waitFor();
     const status = await page.evaluate(async () => (await fetch("/api/auth/me")).status);
     expect(status).toBe(401);
