@@ -8,6 +8,7 @@ import { csrfCookieName, csrfHeaderName } from "../auth/csrf";
 import { repoRoot } from "../config";
 
 const serverEntry = join(repoRoot, "apps", "api", "src", "server.ts");
+const KEPT_OUTPUT = 256 * 1024;
 
 export interface ServerProcessOptions {
   readonly dataDir: string;
@@ -16,13 +17,15 @@ export interface ServerProcessOptions {
   /** How long to wait for "Tributary is running at …" (default 3 minutes: a loaded 2-core machine is slow). */
   readonly startTimeoutMs?: number;
   readonly logLevel?: string;
+  /** Extra options for node itself, before the server's script (e.g. --cpu-prof for profiling). */
+  readonly nodeOptions?: readonly string[];
 }
 
 export interface ServerProcess {
   readonly child: ChildProcess;
   /** Resolves with the base URL once the server listens; rejects if it exits first. */
   readonly ready: Promise<string>;
-  /** Everything it printed so far (stdout and stderr). */
+  /** What it printed so far (stdout and stderr; the latest 256 kB to 512 kB of a long run). */
   output(): string;
   /** Resolves when a printed line matches (already printed counts). */
   waitForOutput(pattern: RegExp, timeoutMs: number): Promise<string>;
@@ -35,7 +38,7 @@ export interface ServerProcess {
 }
 
 export function spawnServer(options: ServerProcessOptions): ServerProcess {
-  const child = spawn(process.execPath, ["--import", "tsx", serverEntry], {
+  const child = spawn(process.execPath, [...(options.nodeOptions ?? []), "--import", "tsx", serverEntry], {
     cwd: repoRoot,
     env: {
       ...process.env,
@@ -52,6 +55,8 @@ export function spawnServer(options: ServerProcessOptions): ServerProcess {
   const watchers = new Set<() => void>();
   const append = (chunk: Buffer) => {
     log += chunk.toString();
+    // A long run (the load benchmark logs every request) keeps only the latest output.
+    if (log.length > 2 * KEPT_OUTPUT) log = log.slice(-KEPT_OUTPUT);
     for (const watcher of [...watchers]) watcher();
   };
   child.stdout?.on("data", append);
