@@ -14,6 +14,7 @@ import { SamplerWorkerPool } from "@tributary/stats/node";
 import type { JobWorkerData, WorkerMessage } from "./local-job-runner";
 import type { FitJobInput, FitJobOutput, FitJobProgress, FitWorkerOptions } from "./fit-job";
 import { FitProgressTracker } from "./fit-progress-tracker";
+import { FIT_THREAD_NICENESS, lowerThreadPriority } from "./thread-priority";
 import { parameterLabeller, parameterTable, parameterTrace, thinnedDraws, worstParameters } from "./run-report-data";
 import { posteriorPredictiveCheck, runDrawSet } from "./predictive-check";
 
@@ -43,6 +44,8 @@ async function runFit(input: FitJobInput, options: FitWorkerOptions): Promise<vo
   };
   report(true);
 
+  // Below the server's requests in the scheduler's eyes; the chain threads started below inherit it (Linux).
+  lowerThreadPriority(FIT_THREAD_NICENESS);
   // Chains on their own threads when this fit may use several (the chain workers rebuild the model from its spec).
   const pool = options.chainThreads > 1 ? new SamplerWorkerPool({ maxWorkers: options.chainThreads }) : null;
   const base: RunChains = pool
