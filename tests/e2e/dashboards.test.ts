@@ -4,6 +4,7 @@
 // saved under test-results/screenshots/dashboards/<role>/. A market manager never sees
 // another market's name; a flag raised in the Pooling review shows on the Portfolio map.
 import type { BrandComparison, ChannelSheet, MarketDesk, PoolingReview, PortfolioMap } from "@tributary/contracts";
+import { readFileSync } from "node:fs";
 import type { Page } from "playwright-core";
 import { afterAll, describe, expect, inject, it } from "vitest";
 import { demoMarkets } from "../../apps/api/src/demo/demo-design";
@@ -276,4 +277,24 @@ describe("market scope on the dashboards", () => {
       expect(problems).toEqual([]);
     });
   }
+});
+
+describe("reports on the Market desk", () => {
+  it("a market manager downloads the current fit's PDF for their market, and the picker offers no other market", async () => {
+    const { page, problems } = await browserFor("southManager");
+    await page.goto(`${server.baseUrl}/market-desk`);
+    const reports = page.getByRole("region", { name: "Reports of the current fit" });
+    await reports.waitFor({ timeout: 60_000 });
+    const own = demoUsers.southManager.markets.map((code) => demoMarkets.find((market) => market.code === code)!.name);
+    const offered = await reports.getByLabel("Report for").locator('optgroup[label="Markets"] option').allTextContents();
+    expect(offered.sort()).toEqual(own.map((name) => `Market ${name}`).sort());
+    await reports.getByLabel("Report for").selectOption({ label: `Market ${own[0]}` });
+    const [download] = await Promise.all([page.waitForEvent("download", { timeout: 120_000 }), reports.getByRole("button", { name: `Download PDF for ${own[0]}` }).click()]);
+    expect(download.suggestedFilename()).toMatch(/\.pdf$/);
+    const file = await download.path();
+    expect(readFileSync(file).subarray(0, 5).toString("latin1")).toBe("%PDF-");
+    await reports.getByRole("status").waitFor();
+    await saveScreenshot(page, "dashboards", "southManager", "06-market-desk-reports");
+    expect(problems).toEqual([]);
+  });
 });

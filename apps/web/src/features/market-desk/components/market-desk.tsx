@@ -23,6 +23,8 @@ type MarketDeskProps = {
   scopedToMarkets: boolean;
   channelSheetHref: (selection: { cellId: string; channel: string }) => string;
   noPublishedRun: ReactNode;
+  /** Downloads of the current fit's reports (composed by the route), shown below the plans. */
+  reports?: ReactNode;
 };
 
 const ALL = "all";
@@ -39,7 +41,7 @@ function Section({ title, children, description }: { title: string; description?
   );
 }
 
-export function MarketDesk({ portfolio, userName, scopedToMarkets, channelSheetHref, noPublishedRun }: MarketDeskProps) {
+export function MarketDesk({ portfolio, userName, scopedToMarkets, channelSheetHref, noPublishedRun, reports }: MarketDeskProps) {
   const pickerId = useId();
   const [params, setParams] = useSearchParams();
   // A market manager starts with all their markets; other roles with one market at a time.
@@ -167,6 +169,7 @@ export function MarketDesk({ portfolio, userName, scopedToMarkets, channelSheetH
             </EmptyState>
           )}
         </Section>
+        {reports}
       </div>
     </>
   );
