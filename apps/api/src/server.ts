@@ -12,6 +12,7 @@ import { demoFitModeFromEnv, queueDemoFit, resumeDemoFit } from "./demo/demo-fit
 import { configFromEnv, repoRoot } from "./config";
 import { closeDatabase, createDatabase, type Database } from "./db/client";
 import { seedDemo } from "./demo/seed-demo";
+import { notifyRunPublished } from "./mail/run-published";
 import { markInterruptedRuns } from "./runs/run-service";
 
 async function main(): Promise<void> {
@@ -45,7 +46,14 @@ async function main(): Promise<void> {
 
   const app = createApp({ db, config });
   const deps = appDeps(app);
-  const demoFitDeps = { db, runs: deps.runs, dashboards: deps.dashboards };
+  // Links in e-mails sent outside a request: PUBLIC_URL, else the address the server listens at.
+  let baseUrl = config.publicUrl ?? `http://localhost:${port}`;
+  const demoFitDeps = {
+    db,
+    runs: deps.runs,
+    dashboards: deps.dashboards,
+    onPublished: (runId: string) => notifyRunPublished(db, deps.mailer, runId, baseUrl),
+  };
   if (seed.seeded) {
     const queued = await queueDemoFit(demoFitDeps, demoFit);
     if (queued) console.log(`Fitting the demo portfolio (DEMO_FIT=${demoFit}); it is published when it finishes. Progress: GET /api/dashboards/status`);
@@ -60,6 +68,7 @@ async function main(): Promise<void> {
   const server = app.listen(port, () => {
     const address = server.address();
     const actualPort = typeof address === "object" && address ? address.port : port;
+    if (!config.publicUrl) baseUrl = `http://localhost:${actualPort}`;
     console.log(`Tributary is running at http://localhost:${actualPort}`);
   });
 

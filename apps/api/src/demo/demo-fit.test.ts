@@ -6,7 +6,8 @@ import { and, eq, isNotNull } from "drizzle-orm";
 import { afterAll, describe, expect, it } from "vitest";
 import { dashboardStatusSchema, runSchema } from "@tributary/contracts";
 import { appDeps, createApp, shutdownApp } from "../app";
-import { auditLog, modelSettings, runs } from "../db/schema";
+import { auditLog, modelSettings, outbox, runs } from "../db/schema";
+import { notifyRunPublished } from "../mail/run-published";
 import type { FitJobInput, FitJobOutput, FitJobProgress } from "../jobs/fit-job";
 import { markInterruptedRuns } from "../runs/run-service";
 import { saveTinyDataset } from "../testing/fit-fixtures";
@@ -33,11 +34,12 @@ describe("DEMO_FIT", () => {
 });
 
 describe("the first fit", () => {
-  it("is queued as the analyst, shown as in progress, and published automatically with the reason", async () => {
+  it("is queued as the analyst, shown as in progress, published automatically with the reason, and e-mailed like any publish", async () => {
     const t = await demoTestApp();
     opened.push(t);
     const versionId = await saveTinyDataset(t.db);
-    const deps = appDeps(t.app);
+    const app = appDeps(t.app);
+    const deps = { ...app, onPublished: (runId: string) => notifyRunPublished(t.db, app.mailer, runId, "http://tributary.test") };
     const manager = await signedInAgent(t.app, demoUsers.veltriaManager);
 
     expect(await queueDemoFit(deps, "off", { datasetVersionId: versionId })).toBeNull();
@@ -70,6 +72,11 @@ describe("the first fit", () => {
     expect(map.run.publication.reason).toBe(demoAutoPublishReason);
     const [audit] = await t.db.select().from(auditLog).where(and(eq(auditLog.action, "run_published"), eq(auditLog.target, `run:${queued.runId}`)));
     expect(audit!.details).toMatchObject({ automatic: true, demoFit: true, reason: demoAutoPublishReason });
+    // The market managers are told, as after a publish from the Runs screen.
+    const mail = await t.db.select({ to: outbox.to, kind: outbox.kind, text: outbox.text }).from(outbox);
+    const toManager = mail.filter((message) => message.to === demoUsers.veltriaManager.email);
+    expect(toManager.length).toBe(1);
+    expect(toManager[0]!.text).toContain("http://tributary.test");
   });
 
   it("is restarted at the next start when the server stopped while it ran", async () => {

@@ -40,6 +40,8 @@ export interface DemoFitDeps {
   readonly runs: RunService;
   readonly dashboards?: DashboardCache;
   readonly log?: Logger;
+  /** Called after the demo fit is published (the server sends the same e-mails a publish from the Runs screen does). */
+  readonly onPublished?: (runId: string) => Promise<void>;
 }
 
 async function anyPublished(db: Queryable): Promise<boolean> {
@@ -75,6 +77,7 @@ async function autoPublish(deps: DemoFitDeps, runId: string, userId: string): Pr
   await publishRun(deps.db, runId, userId, run.trust.trustworthy === true ? undefined : demoAutoPublishReason, { automatic: true, demoFit: true });
   deps.dashboards?.warm(runId);
   deps.log?.info({ runId, trustworthy: run.trust.trustworthy }, "published the demo's first fit");
+  await deps.onPublished?.(runId);
   return true;
 }
 
