@@ -8,6 +8,7 @@ import { LoadingState } from "../../../components/ui/loading-state";
 import { ModelCaution } from "../../../components/ui/model-caution";
 import { PageHeader } from "../../../components/ui/page-header";
 import { ApiError } from "../../../lib/api-client";
+import type { ChannelName } from "../../../lib/channel-names";
 import { formatDateTime, formatNumber } from "../../../lib/format";
 import { createBudgetSplitPlanInput, useCreateBudgetSplitPlan } from "../api/create-budget-split-plan";
 import { useCurrentDrawSet } from "../api/get-current-draw-set";
@@ -22,6 +23,8 @@ import { SplitResult } from "./split-result";
 type BudgetSplitProps = {
   user: CurrentUser;
   portfolio: Portfolio;
+  /** Display name of a channel code; codes stay the values. */
+  channelName: ChannelName;
   /** A control for PDF reports, composed in by the route. */
   reports?: ReactNode;
   /** Injected in tests; the app splits in a Web Worker. */
@@ -125,7 +128,7 @@ function SaveSplitForm({ computed, runId, onSaved }: { computed: Computed; runId
   );
 }
 
-function SplitWorkspace({ drawSet, user, portfolio, runner }: { drawSet: DecodedDrawSet; user: CurrentUser; portfolio: Portfolio; runner?: SplitRunner }) {
+function SplitWorkspace({ drawSet, user, portfolio, channelName, runner }: { drawSet: DecodedDrawSet; user: CurrentUser; portfolio: Portfolio; channelName: ChannelName; runner?: SplitRunner }) {
   const [form, setForm] = useState<SplitFormState>(() => initialForm(drawSet));
   const [showErrors, setShowErrors] = useState(false);
   const [computed, setComputed] = useState<Computed | null>(null);
@@ -172,6 +175,7 @@ function SplitWorkspace({ drawSet, user, portfolio, runner }: { drawSet: Decoded
         onChange={setForm}
         cells={drawSet.cells}
         channels={drawSet.channels}
+        channelName={channelName}
         currency={drawSet.currency}
         customerValues={customerValues}
         currentSpend={currentSpend}
@@ -197,7 +201,7 @@ function SplitWorkspace({ drawSet, user, portfolio, runner }: { drawSet: Decoded
               Computed from {formatNumber(computed.drawCount)} draws in {Math.round(computed.elapsedMs)} ms.
             </p>
           </div>
-          <SplitResult view={computed.view} currency={drawSet.currency} />
+          <SplitResult view={computed.view} currency={drawSet.currency} channelName={channelName} />
           <SaveSplitForm
             key={computed.elapsedMs}
             computed={computed}
@@ -216,7 +220,7 @@ function SplitWorkspace({ drawSet, user, portfolio, runner }: { drawSet: Decoded
           Saved budget splits
         </h2>
         <SplitPlans currency={drawSet.currency} openId={openPlanId} onOpen={setOpenPlanId} />
-        {openPlanId ? <SavedSplit key={openPlanId} planId={openPlanId} currency={drawSet.currency} user={user} onClose={() => setOpenPlanId(null)} /> : null}
+        {openPlanId ? <SavedSplit key={openPlanId} planId={openPlanId} currency={drawSet.currency} channelName={channelName} user={user} onClose={() => setOpenPlanId(null)} /> : null}
       </section>
       {user.role === "admin" || user.role === "portfolio_lead" ? null : (
         <p className="text-caption text-ink-600">Portfolio leads approve or reject submitted splits.</p>
@@ -226,7 +230,7 @@ function SplitWorkspace({ drawSet, user, portfolio, runner }: { drawSet: Decoded
 }
 
 /** A total budget split across channels and cells where it is expected to earn most, with its uncertainty. */
-export function BudgetSplit({ user, portfolio, reports, runner }: BudgetSplitProps) {
+export function BudgetSplit({ user, portfolio, channelName, reports, runner }: BudgetSplitProps) {
   const drawSet = useCurrentDrawSet();
   return (
     <>
@@ -245,7 +249,7 @@ export function BudgetSplit({ user, portfolio, reports, runner }: BudgetSplitPro
       ) : drawSet.data.cells.length === 0 ? (
         <EmptyState title="No cells to split a budget over">The current fit has no cells you may see.</EmptyState>
       ) : (
-        <SplitWorkspace key={drawSet.data.runId} drawSet={drawSet.data} user={user} portfolio={portfolio} runner={runner} />
+        <SplitWorkspace key={drawSet.data.runId} drawSet={drawSet.data} user={user} portfolio={portfolio} channelName={channelName} runner={runner} />
       )}
       {reports ? <div className="mt-8">{reports}</div> : null}
     </>

@@ -4,6 +4,7 @@ import { compactNumber } from "../../../components/chart/axis-format";
 import { seriesColour, tokenColour } from "../../../components/chart/chart-colours";
 import { PlotFigure } from "../../../components/chart/plot-figure";
 import { inputClass } from "../../../components/ui/field";
+import type { ChannelName } from "../../../lib/channel-names";
 import { formatMoney, formatNumber } from "../../../lib/format";
 import type { SplitView } from "../split/split-view";
 
@@ -13,22 +14,27 @@ const MAX_LINES_IN_CHART = 40;
 const r = (x: number) => Math.round(x);
 
 /** The allocation against the current spend, summed by channel or by cell, or line by line. */
-export function AllocationChart({ view, currency }: { view: SplitView; currency: string }) {
+export function AllocationChart({ view, currency, channelName }: { view: SplitView; currency: string; channelName: ChannelName }) {
   const selectId = useId();
   const [grouping, setGrouping] = useState<Grouping>("channel");
   const rows = useMemo(() => {
-    const label = (line: SplitView["lines"][number]) =>
-      grouping === "channel" ? line.channel : grouping === "cell" ? `${line.brand} in ${line.market}` : `${line.channel} · ${line.brand} in ${line.market}`;
+    // Summed by the channel's code and the cell's id; shown under the channel's display name.
+    const group = (line: SplitView["lines"][number]) =>
+      grouping === "channel"
+        ? { key: line.channel, name: channelName(line.channel) }
+        : grouping === "cell"
+          ? { key: line.cellId, name: `${line.brand} in ${line.market}` }
+          : { key: line.key, name: `${channelName(line.channel)} · ${line.brand} in ${line.market}` };
     const sums = new Map<string, { name: string; allocation: number; current: number }>();
     for (const line of view.lines) {
-      const name = label(line);
-      const row = sums.get(name) ?? { name, allocation: 0, current: 0 };
+      const { key, name } = group(line);
+      const row = sums.get(key) ?? { name, allocation: 0, current: 0 };
       row.allocation += line.allocation;
       row.current += line.current;
-      sums.set(name, row);
+      sums.set(key, row);
     }
     return [...sums.values()];
-  }, [grouping, view.lines]);
+  }, [channelName, grouping, view.lines]);
   const render = useCallback(
     (width: number) => {
       return Plot.plot({

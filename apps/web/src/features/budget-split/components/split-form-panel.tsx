@@ -3,6 +3,7 @@ import { useId, type FormEvent } from "react";
 import { CellPicker } from "../../../components/cell-picker/cell-picker";
 import { Button } from "../../../components/ui/button";
 import { describedBy, inputClass } from "../../../components/ui/field";
+import type { ChannelName } from "../../../lib/channel-names";
 import { formatMoney } from "../../../lib/format";
 import type { BoundText, SplitFormState } from "../split/split-form";
 
@@ -11,6 +12,7 @@ type SplitFormPanelProps = {
   onChange: (state: SplitFormState) => void;
   cells: readonly DecodedDrawSetCell[];
   channels: readonly string[];
+  channelName: ChannelName;
   currency: string;
   /** Customer value per brand name (null: not set). */
   customerValues: Readonly<Record<string, number | null>>;
@@ -104,7 +106,7 @@ function BoundsTable({
 }
 
 /** The split's inputs: cells, budget and horizon, bounds, objective and risk attitude. */
-export function SplitFormPanel({ state, onChange, cells, channels, currency, customerValues, currentSpend, errors: allErrors, showErrors, onSubmit, busy }: SplitFormPanelProps) {
+export function SplitFormPanel({ state, onChange, cells, channels, channelName, currency, customerValues, currentSpend, errors: allErrors, showErrors, onSubmit, busy }: SplitFormPanelProps) {
   const id = useId();
   const errors = showErrors ? allErrors : {};
   const set = (patch: Partial<SplitFormState>) => onChange({ ...state, ...patch });
@@ -147,7 +149,7 @@ export function SplitFormPanel({ state, onChange, cells, channels, currency, cus
       <div className="grid items-start gap-6 lg:grid-cols-2">
         <BoundsTable
           caption={`Bounds per channel, over the horizon (${currency})`}
-          rows={channels.map((channel) => ({ key: channel, label: channel }))}
+          rows={channels.map((channel) => ({ key: channel, label: channelName(channel) }))}
           values={state.channelBounds}
           errorPrefix="channel:"
           errors={errors}

@@ -16,6 +16,7 @@ import { ErrorState } from "../../../components/ui/error-state";
 import { inputClass } from "../../../components/ui/field";
 import { LoadingState } from "../../../components/ui/loading-state";
 import { ApiError } from "../../../lib/api-client";
+import type { ChannelName } from "../../../lib/channel-names";
 import { formatDateTime, formatMoney, formatNumber } from "../../../lib/format";
 import { planDecisionInput, useDecidePlan } from "../api/decide-plan";
 import { useDeletePlan } from "../api/delete-plan";
@@ -90,7 +91,19 @@ function DecisionForm({ plan }: { plan: BudgetSplitPlan }) {
 }
 
 /** One saved split: its status, what may be done with it now, and the server's numbers. */
-export function SavedSplit({ planId, currency, user, onClose }: { planId: string; currency: string; user: Pick<CurrentUser, "id" | "role">; onClose: () => void }) {
+export function SavedSplit({
+  planId,
+  currency,
+  channelName,
+  user,
+  onClose,
+}: {
+  planId: string;
+  currency: string;
+  channelName: ChannelName;
+  user: Pick<CurrentUser, "id" | "role">;
+  onClose: () => void;
+}) {
   const queryClient = useQueryClient();
   const query = usePlan(planId);
   const submit = useSubmitPlan();
@@ -188,7 +201,7 @@ export function SavedSplit({ planId, currency, user, onClose }: { planId: string
           {messageOf(actionError)}
         </p>
       ) : null}
-      <SplitResult view={view} currency={currency} title={`Saved split ${plan.name}`} />
+      <SplitResult view={view} currency={currency} channelName={channelName} title={`Saved split ${plan.name}`} />
     </section>
   );
 }

@@ -1,5 +1,6 @@
 import { DataTable, type DataTableColumn } from "../../../components/data-table/data-table";
 import { ModelCaution } from "../../../components/ui/model-caution";
+import type { ChannelName } from "../../../lib/channel-names";
 import { formatMoney, formatNumber } from "../../../lib/format";
 import { marginalCheck, type SplitLineView, type SplitView } from "../split/split-view";
 import { AllocationChart, OutcomeHistogram } from "./split-charts";
@@ -60,9 +61,9 @@ export function MarginalReturnCheck({ view, currency }: { view: SplitView; curre
   );
 }
 
-const lineColumns = (currency: string, objective: SplitView["objective"]): DataTableColumn<SplitLineView>[] => [
+const lineColumns = (currency: string, objective: SplitView["objective"], channelName: ChannelName): DataTableColumn<SplitLineView>[] => [
   { id: "cell", header: "Cell", value: (line) => `${line.brand} in ${line.market}` },
-  { id: "channel", header: "Channel", value: (line) => line.channel },
+  { id: "channel", header: "Channel", value: (line) => channelName(line.channel) },
   { id: "current", header: "Current", value: (line) => Math.round(line.current), cell: (line) => formatMoney(line.current, currency), align: "end" },
   { id: "allocation", header: "Split", value: (line) => Math.round(line.allocation), cell: (line) => <span className="font-semibold">{formatMoney(line.allocation, currency)}</span>, align: "end" },
   {
@@ -126,12 +127,12 @@ export function boundSummary(atBounds: readonly SplitLineView[], total: number, 
   return `${atBounds.length} of ${total} lines sit at a bound: ${parts.join(", ")}.${equalAtMargin ? " The rest share the budget at equal return." : ""}`;
 }
 
-function BoundChips({ lines, currency }: { lines: readonly SplitLineView[]; currency: string }) {
+function BoundChips({ lines, currency, channelName }: { lines: readonly SplitLineView[]; currency: string; channelName: ChannelName }) {
   return (
     <ul className="mt-2 flex flex-wrap gap-2 text-small">
       {lines.map((line) => (
         <li key={line.key} className="rounded-md border border-silt-500/40 bg-silt-100 px-2 py-1 text-ink-900">
-          {line.channel} in {line.brand} {line.market}: {boundWords(line, currency)}
+          {channelName(line.channel)} in {line.brand} {line.market}: {boundWords(line, currency)}
         </li>
       ))}
     </ul>
@@ -139,7 +140,7 @@ function BoundChips({ lines, currency }: { lines: readonly SplitLineView[]; curr
 }
 
 /** A split: its headline numbers, the optimality check, the lines at bounds, the allocation and the outcome's distribution. */
-export function SplitResult({ view, currency, title = "Split result" }: { view: SplitView; currency: string; title?: string }) {
+export function SplitResult({ view, currency, channelName, title = "Split result" }: { view: SplitView; currency: string; channelName: ChannelName; title?: string }) {
   const atBounds = view.lines.filter((line) => line.activeBound !== null);
   const outcome = view.objective === "profit" && view.profit ? view.profit : view.customers;
   return (
@@ -190,11 +191,11 @@ export function SplitResult({ view, currency, title = "Split result" }: { view: 
           <>
             <p className="mt-1 text-small text-ink-700">{boundSummary(atBounds, view.lines.length, marginalCheck(view.lines).equal)}</p>
             {atBounds.length <= 8 ? (
-              <BoundChips lines={atBounds} currency={currency} />
+              <BoundChips lines={atBounds} currency={currency} channelName={channelName} />
             ) : (
               <details className="mt-1">
                 <summary className="cursor-pointer text-small font-medium text-stream-700">Show the {atBounds.length} lines</summary>
-                <BoundChips lines={atBounds} currency={currency} />
+                <BoundChips lines={atBounds} currency={currency} channelName={channelName} />
               </details>
             )}
           </>
@@ -202,13 +203,13 @@ export function SplitResult({ view, currency, title = "Split result" }: { view: 
       </section>
 
       <div className="grid gap-6 xl:grid-cols-2">
-        <AllocationChart view={view} currency={currency} />
+        <AllocationChart view={view} currency={currency} channelName={channelName} />
         <OutcomeHistogram view={view} currency={currency} />
       </div>
       <DataTable
         caption="Allocation per line"
         rows={view.lines}
-        columns={lineColumns(currency, view.objective)}
+        columns={lineColumns(currency, view.objective, channelName)}
         rowKey={(line) => line.key}
         csvFileName="budget-split-allocation.csv"
         initialSort={{ id: "allocation", desc: true }}

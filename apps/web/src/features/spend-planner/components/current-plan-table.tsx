@@ -1,6 +1,7 @@
 import { DataTable, type DataTableColumn } from "../../../components/data-table/data-table";
 import { Button } from "../../../components/ui/button";
 import { inputClass } from "../../../components/ui/field";
+import type { ChannelName } from "../../../lib/channel-names";
 import { formatMoney } from "../../../lib/format";
 import { parseAmount } from "../scenario/scenario-draft";
 import type { PlanLine } from "../worker/planner-api";
@@ -8,7 +9,7 @@ import type { PlanLine } from "../worker/planner-api";
 /** Key of a line (cell × channel) in the edits map. */
 export const lineKey = (line: { brand: string; market: string; channel: string }) => `${line.brand}\u0000${line.market}\u0000${line.channel}`;
 
-type Row = PlanLine & { key: string; recentAverage: number; edit: string | undefined };
+type Row = PlanLine & { key: string; channelName: string; recentAverage: number; edit: string | undefined };
 
 type CurrentPlanTableProps = {
   lines: PlanLine[];
@@ -18,17 +19,18 @@ type CurrentPlanTableProps = {
   onEdit: (key: string, text: string | null) => void;
   currency: string;
   horizon: number;
+  channelName: ChannelName;
 };
 
 /** The current plan, line by line: each line's recent weekly average, editable. */
-export function CurrentPlanTable({ lines, recentAverages, edits, onEdit, currency, horizon }: CurrentPlanTableProps) {
+export function CurrentPlanTable({ lines, recentAverages, edits, onEdit, currency, horizon, channelName }: CurrentPlanTableProps) {
   const rows: Row[] = lines.map((line, i) => {
     const key = lineKey(line);
-    return { ...line, key, recentAverage: recentAverages[i] ?? 0, edit: edits[key] };
+    return { ...line, key, channelName: channelName(line.channel), recentAverage: recentAverages[i] ?? 0, edit: edits[key] };
   });
   const columns: DataTableColumn<Row>[] = [
     { id: "cell", header: "Cell", value: (row) => `${row.brand} in ${row.market}` },
-    { id: "channel", header: "Channel", value: (row) => row.channel },
+    { id: "channel", header: "Channel", value: (row) => row.channelName },
     { id: "recent", header: "Recent weekly average", value: (row) => Math.round(row.recentAverage), cell: (row) => formatMoney(row.recentAverage, currency), align: "end" },
     {
       id: "planned",
@@ -44,7 +46,7 @@ export function CurrentPlanTable({ lines, recentAverages, edits, onEdit, currenc
           <span className="inline-flex items-center gap-1">
             <input
               inputMode="decimal"
-              aria-label={`Planned weekly spend, ${row.channel} in ${row.brand} ${row.market}`}
+              aria-label={`Planned weekly spend, ${row.channelName} in ${row.brand} ${row.market}`}
               aria-invalid={invalid ? true : undefined}
               title={invalid ? "Enter a weekly spend of 0 or more" : undefined}
               className={`${inputClass} w-28 text-right tabular-nums ${row.edit !== undefined ? "border-stream-700 bg-stream-50" : ""}`}
@@ -52,7 +54,7 @@ export function CurrentPlanTable({ lines, recentAverages, edits, onEdit, currenc
               onChange={(event) => onEdit(row.key, event.target.value)}
             />
             {row.edit !== undefined ? (
-              <Button variant="quiet" className="px-1.5! py-1!" onClick={() => onEdit(row.key, null)} aria-label={`Back to the recent average, ${row.channel} in ${row.brand} ${row.market}`}>
+              <Button variant="quiet" className="px-1.5! py-1!" onClick={() => onEdit(row.key, null)} aria-label={`Back to the recent average, ${row.channelName} in ${row.brand} ${row.market}`}>
                 Reset
               </Button>
             ) : null}

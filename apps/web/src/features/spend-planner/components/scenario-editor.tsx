@@ -1,6 +1,7 @@
 import { useId } from "react";
 import { Button } from "../../../components/ui/button";
 import { describedBy, inputClass } from "../../../components/ui/field";
+import type { ChannelName } from "../../../lib/channel-names";
 import {
   newOperation,
   operationKindLabels,
@@ -17,6 +18,7 @@ type ScenarioEditorProps = {
   scenario: ScenarioDraft;
   horizon: number;
   choices: Choices;
+  channelName: ChannelName;
   onChange: (scenario: ScenarioDraft) => void;
   onRemove?: () => void;
   /** A problem the forecast found with the scenario as a whole (e.g. spend below zero). */
@@ -39,6 +41,7 @@ function OperationRow({
   scenarioName,
   horizon,
   choices,
+  channelName,
   onChange,
   onRemove,
 }: {
@@ -47,6 +50,7 @@ function OperationRow({
   scenarioName: string;
   horizon: number;
   choices: Choices;
+  channelName: ChannelName;
   onChange: (draft: OperationDraft) => void;
   onRemove: () => void;
 }) {
@@ -105,7 +109,7 @@ function OperationRow({
             <option value="">Every channel</option>
             {choices.channels.map((channel) => (
               <option key={channel} value={channel}>
-                {channel}
+                {channelName(channel)}
               </option>
             ))}
           </select>
@@ -211,7 +215,7 @@ function OperationRow({
 }
 
 /** One scenario: its name and the changes it makes to the current plan, in order. */
-export function ScenarioEditor({ scenario, horizon, choices, onChange, onRemove, problem }: ScenarioEditorProps) {
+export function ScenarioEditor({ scenario, horizon, choices, channelName, onChange, onRemove, problem }: ScenarioEditorProps) {
   const nameId = useId();
   const update = (index: number, draft: OperationDraft) => onChange({ ...scenario, operations: scenario.operations.map((op, i) => (i === index ? draft : op)) });
   return (
@@ -246,6 +250,7 @@ export function ScenarioEditor({ scenario, horizon, choices, onChange, onRemove,
             scenarioName={scenario.name}
             horizon={horizon}
             choices={choices}
+            channelName={channelName}
             onChange={(next) => update(index, next)}
             onRemove={() => onChange({ ...scenario, operations: scenario.operations.filter((_, i) => i !== index) })}
           />

@@ -8,6 +8,7 @@ import { LoadingState } from "../../../components/ui/loading-state";
 import { ModelCaution } from "../../../components/ui/model-caution";
 import { PageHeader } from "../../../components/ui/page-header";
 import { ApiError } from "../../../lib/api-client";
+import type { ChannelName } from "../../../lib/channel-names";
 import { formatDateTime, formatMoney, formatNumber } from "../../../lib/format";
 import { useCurrentDrawSet } from "../api/get-current-draw-set";
 import { planQueryOptions } from "../api/get-plan";
@@ -25,6 +26,8 @@ import { ScenarioEditor } from "./scenario-editor";
 
 type SpendPlannerProps = {
   user: CurrentUser;
+  /** Display name of a channel code; codes stay the values. */
+  channelName: ChannelName;
   /** Injected in tests; the app runs the forecasts in a Web Worker. */
   runner?: PlannerRunner;
 };
@@ -48,7 +51,7 @@ function firstScenario(set: DecodedDrawSet, horizon: number): ScenarioDraft {
   return { id: draftId("scenario"), name: "Scenario A", operations: [newOperation(horizon, { channel: set.channels[0] ?? "" })] };
 }
 
-function PlannerWorkspace({ drawSet, user, runner }: { drawSet: DecodedDrawSet; user: CurrentUser; runner?: PlannerRunner }) {
+function PlannerWorkspace({ drawSet, user, channelName, runner }: { drawSet: DecodedDrawSet; user: CurrentUser; channelName: ChannelName; runner?: PlannerRunner }) {
   const queryClient = useQueryClient();
   const [cellIds, setCellIds] = useState<string[]>(() => initialCells(drawSet));
   const [horizonText, setHorizonText] = useState("13");
@@ -199,6 +202,7 @@ function PlannerWorkspace({ drawSet, user, runner }: { drawSet: DecodedDrawSet; 
             }
             currency={drawSet.currency}
             horizon={result.current.selection.weeks.length}
+            channelName={channelName}
           />
         ) : planner.status === "failed" ? null : (
           <LoadingState label="Working out the current plan…" />
@@ -219,6 +223,7 @@ function PlannerWorkspace({ drawSet, user, runner }: { drawSet: DecodedDrawSet; 
               scenario={scenario}
               horizon={horizon ?? 13}
               choices={choices}
+              channelName={channelName}
               onChange={(next) => setScenarios((list) => list.map((s) => (s.id === scenario.id ? next : s)))}
               onRemove={scenarios.length > 1 ? () => setScenarios((list) => list.filter((s) => s.id !== scenario.id)) : undefined}
               problem={scenarioProblem(scenario.id)}
@@ -304,7 +309,7 @@ function PlannerWorkspace({ drawSet, user, runner }: { drawSet: DecodedDrawSet; 
 }
 
 /** Spend scenarios for the weeks ahead against the current plan, computed in the browser from the current fit's draws. */
-export function SpendPlanner({ user, runner }: SpendPlannerProps) {
+export function SpendPlanner({ user, channelName, runner }: SpendPlannerProps) {
   const drawSet = useCurrentDrawSet();
   const scoped = user.role === "market_manager";
   return (
@@ -327,7 +332,7 @@ export function SpendPlanner({ user, runner }: SpendPlannerProps) {
       ) : drawSet.data.cells.length === 0 ? (
         <EmptyState title="No cells to plan">The current fit has no cells in your markets.</EmptyState>
       ) : (
-        <PlannerWorkspace key={drawSet.data.runId} drawSet={drawSet.data} user={user} runner={runner} />
+        <PlannerWorkspace key={drawSet.data.runId} drawSet={drawSet.data} user={user} channelName={channelName} runner={runner} />
       )}
     </>
   );

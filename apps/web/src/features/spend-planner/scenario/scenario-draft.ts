@@ -151,10 +151,10 @@ export function fromOperation(operation: ScenarioOperation, horizon: number): Op
   }
 }
 
-/** What a change does, in words: "search in Ardeval, weeks 3–6: multiply spend by 1.2". */
-export function describeOperation(operation: ScenarioOperation, horizon: number): string {
+/** What a change does, in words: "Search in Ardeval, weeks 3–6: multiply spend by 1.2"; `channelName` turns codes into display names. */
+export function describeOperation(operation: ScenarioOperation, horizon: number, channelName: (code: string) => string = (code) => code): string {
   const target = operation.target ?? {};
-  const parts = [target.channels?.join(", ") ?? "every channel"];
+  const parts = [target.channels?.map(channelName).join(", ") ?? "every channel"];
   if (target.brands) parts.push(`of ${target.brands.join(", ")}`);
   if (target.markets) parts.push(`in ${target.markets.join(", ")}`);
   const weeks = target.weeks ?? { from: 0, to: horizon - 1 };

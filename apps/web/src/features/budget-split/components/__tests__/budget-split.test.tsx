@@ -2,12 +2,18 @@ import type { BudgetSplitPlan, BudgetSplitPlanInput, BudgetSplitResultView, Plan
 import { fireEvent, screen, waitFor, within } from "@testing-library/react";
 import { describe, expect, it } from "vitest";
 import { fixtureCellIds, fixtureDrawSet, fixtureDrawSetWire } from "../../../../testing/draw-set-fixtures";
+import { channelNameLookup } from "../../../../lib/channel-names";
 import { jsonResponse, renderWithProviders, stubFetch, testPortfolio, testUsers } from "../../../../testing/test-utils";
 import { createSplitApi } from "../../worker/split-api";
 import { inlineSplitRunner } from "../../worker/split-runner";
 import { BudgetSplit } from "../budget-split";
 
 const wait = { timeout: 5000 };
+// The fixture's channels are "search" and "radio"; people read these names.
+const channelName = channelNameLookup([
+  { code: "search", name: "Paid search" },
+  { code: "radio", name: "Local radio" },
+]);
 
 /** What the server answers to a saved split: the same computation on the same draws, in the API's shape. */
 function savedPlan(body: BudgetSplitPlanInput, status: BudgetSplitPlan["status"], can: Partial<BudgetSplitPlan["can"]>): BudgetSplitPlan {
@@ -95,15 +101,15 @@ describe("BudgetSplit", () => {
         return jsonResponse(200, saved);
       },
     });
-    renderWithProviders(<BudgetSplit user={testUsers.analyst} portfolio={testPortfolio()} runner={inlineSplitRunner()} />);
+    renderWithProviders(<BudgetSplit user={testUsers.analyst} portfolio={testPortfolio()} channelName={channelName} runner={inlineSplitRunner()} />);
     const form = await screen.findByRole("form", { name: "Budget split inputs" }, wait);
     fireEvent.change(within(form).getByLabelText("Total budget (EUR)"), { target: { value: "45000" } });
-    fireEvent.change(within(form).getByRole("textbox", { name: "Lower bound, radio" }), { target: { value: "3000" } });
+    fireEvent.change(within(form).getByRole("textbox", { name: "Lower bound, Local radio" }), { target: { value: "3000" } });
     fireEvent.click(within(form).getByRole("button", { name: "Split the budget" }));
 
     const result = await screen.findByRole("region", { name: "The split" }, wait);
     expect(within(result).getByRole("region", { name: "Check: equal return at the margin" }).getAttribute("data-marginal-equal")).toBe("true");
-    expect(within(result).getAllByText(/^radio in .*at its lower bound \(€3,000\)/)).toHaveLength(3);
+    expect(within(result).getAllByText(/^Local radio in .*at its lower bound \(€3,000\)/)).toHaveLength(3);
 
     const save = screen.getByRole("form", { name: "Save the split as a plan" });
     fireEvent.click(within(save).getByRole("button", { name: "Save plan" }));
@@ -167,7 +173,7 @@ describe("BudgetSplit", () => {
         return jsonResponse(200, plan);
       },
     });
-    renderWithProviders(<BudgetSplit user={testUsers.portfolio_lead} portfolio={testPortfolio()} runner={inlineSplitRunner()} />);
+    renderWithProviders(<BudgetSplit user={testUsers.portfolio_lead} portfolio={testPortfolio()} channelName={channelName} runner={inlineSplitRunner()} />);
     const list = await screen.findByRole("table", { name: "Saved budget splits" }, wait);
     expect(within(list).getByRole("row", { name: /Q3 split from the analyst/ }).textContent).toMatch(/Waiting for approval/);
     fireEvent.click(within(list).getByRole("button", { name: "Open Q3 split from the analyst" }));
@@ -188,7 +194,7 @@ describe("BudgetSplit", () => {
     stubFetch({ "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()), "GET /api/plans": () => jsonResponse(200, []) });
     const portfolio = testPortfolio();
     renderWithProviders(
-      <BudgetSplit user={testUsers.analyst} portfolio={{ ...portfolio, brands: portfolio.brands.map((b) => ({ ...b, customerValue: b.name === "Hollowby" ? null : b.customerValue })) }} runner={inlineSplitRunner()} />,
+      <BudgetSplit user={testUsers.analyst} portfolio={{ ...portfolio, brands: portfolio.brands.map((b) => ({ ...b, customerValue: b.name === "Hollowby" ? null : b.customerValue })) }} channelName={channelName} runner={inlineSplitRunner()} />,
     );
     const form = await screen.findByRole("form", { name: "Budget split inputs" }, wait);
     fireEvent.change(within(form).getByLabelText("Total budget (EUR)"), { target: { value: "-3" } });
@@ -202,10 +208,10 @@ describe("BudgetSplit", () => {
 
   it("passes on the split's own objection in words", async () => {
     stubFetch({ "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()), "GET /api/plans": () => jsonResponse(200, []) });
-    renderWithProviders(<BudgetSplit user={testUsers.analyst} portfolio={testPortfolio()} runner={inlineSplitRunner()} />);
+    renderWithProviders(<BudgetSplit user={testUsers.analyst} portfolio={testPortfolio()} channelName={channelName} runner={inlineSplitRunner()} />);
     const form = await screen.findByRole("form", { name: "Budget split inputs" }, wait);
     fireEvent.change(within(form).getByLabelText("Total budget (EUR)"), { target: { value: "1000" } });
-    fireEvent.change(within(form).getByRole("textbox", { name: "Lower bound, search" }), { target: { value: "5000" } });
+    fireEvent.change(within(form).getByRole("textbox", { name: "Lower bound, Paid search" }), { target: { value: "5000" } });
     fireEvent.click(within(form).getByRole("button", { name: "Split the budget" }));
     const error = await screen.findByRole("alert", {}, wait);
     expect(error.textContent).toMatch(/the lower bounds add up to 15000, more than the total budget 1000/);

@@ -1,6 +1,7 @@
 import { fireEvent, render, screen, within } from "@testing-library/react";
 import { useState } from "react";
 import { describe, expect, it } from "vitest";
+import { channelCodeAsName } from "../../../../lib/channel-names";
 import "../../../../testing/test-utils";
 import { newOperation, toOperations, type ScenarioDraft } from "../../scenario/scenario-draft";
 import { ScenarioEditor } from "../scenario-editor";
@@ -13,7 +14,7 @@ function Harness({ seen, problem }: { seen: { operations: unknown; name: string 
   const checked = toOperations(scenario, 13);
   seen.operations = checked.operations;
   seen.name = scenario.name;
-  return <ScenarioEditor scenario={scenario} horizon={13} choices={choices} onChange={setScenario} problem={problem} />;
+  return <ScenarioEditor scenario={scenario} horizon={13} choices={choices} channelName={channelCodeAsName} onChange={setScenario} problem={problem} />;
 }
 
 describe("ScenarioEditor", () => {

@@ -2,11 +2,17 @@ import type { PlanSummary } from "@tributary/contracts";
 import { fireEvent, screen, waitFor, within } from "@testing-library/react";
 import { describe, expect, it } from "vitest";
 import { fixtureDrawSetWire } from "../../../../testing/draw-set-fixtures";
+import { channelNameLookup } from "../../../../lib/channel-names";
 import { jsonResponse, renderWithProviders, stubFetch, testUsers } from "../../../../testing/test-utils";
 import { inlinePlannerRunner } from "../../worker/planner-runner";
 import { SpendPlanner } from "../spend-planner";
 
 const wait = { timeout: 5000 };
+// The fixture's channels are "search" and "radio"; people read these names.
+const channelName = channelNameLookup([
+  { code: "search", name: "Paid search" },
+  { code: "radio", name: "Local radio" },
+]);
 
 function savedPlan(): PlanSummary {
   return {
@@ -34,7 +40,7 @@ describe("SpendPlanner", () => {
       "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()),
       "GET /api/plans": () => jsonResponse(200, []),
     });
-    renderWithProviders(<SpendPlanner user={testUsers.analyst} runner={inlinePlannerRunner()} />);
+    renderWithProviders(<SpendPlanner user={testUsers.analyst} channelName={channelName} runner={inlinePlannerRunner()} />);
     const current = await screen.findByRole("table", { name: "Current plan per line" }, wait);
     // Three cells × two channels.
     expect(within(current).getAllByRole("row")).toHaveLength(7);
@@ -46,19 +52,37 @@ describe("SpendPlanner", () => {
     expect(screen.getAllByRole("complementary", { name: "Caution about estimates" }).length).toBeGreaterThanOrEqual(2);
   });
 
+  it("shows channels by their display names while the codes stay the values", async () => {
+    stubFetch({ "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()), "GET /api/plans": () => jsonResponse(200, []) });
+    renderWithProviders(<SpendPlanner user={testUsers.analyst} channelName={channelName} runner={inlinePlannerRunner()} />);
+    const current = await screen.findByRole("table", { name: "Current plan per line" }, wait);
+    const cells = within(current).getAllByRole("cell").map((cell) => cell.textContent);
+    expect(cells.filter((text) => text === "Paid search")).toHaveLength(3);
+    expect(cells.filter((text) => text === "Local radio")).toHaveLength(3);
+    expect(cells).not.toContain("search");
+    expect(cells).not.toContain("radio");
+    const channel = screen.getByRole("combobox", { name: "Channel of change 1 of Scenario A" }) as HTMLSelectElement;
+    expect(channel.value).toBe("search");
+    expect([...channel.options].map((option) => [option.value, option.textContent])).toEqual([
+      ["", "Every channel"],
+      ["search", "Paid search"],
+      ["radio", "Local radio"],
+    ]);
+  });
+
   it("updates the forecast when a line of the current plan is edited, and saves a scenario with the edit first", async () => {
     const { calls } = stubFetch({
       "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()),
       "GET /api/plans": () => jsonResponse(200, []),
       "POST /api/plans/scenarios": ({ body }) => jsonResponse(400, { error: { code: "invalid_input", message: "Some of what you entered is not valid.", issues: [{ path: "name", message: `A plan named “${(body as { name: string }).name}” exists` }] } }),
     });
-    renderWithProviders(<SpendPlanner user={testUsers.analyst} runner={inlinePlannerRunner()} />);
+    renderWithProviders(<SpendPlanner user={testUsers.analyst} channelName={channelName} runner={inlinePlannerRunner()} />);
     await screen.findByRole("table", { name: "Scenarios against the current plan" }, wait);
     const spendCell = () => within(screen.getByRole("table", { name: "Scenarios against the current plan" })).getByRole("row", { name: /^Current plan/ }).textContent;
     const before = spendCell();
-    fireEvent.change(screen.getByRole("textbox", { name: "Planned weekly spend, radio in Hollowby Ardeval" }), { target: { value: "0" } });
+    fireEvent.change(screen.getByRole("textbox", { name: "Planned weekly spend, Local radio in Hollowby Ardeval" }), { target: { value: "0" } });
     await waitFor(() => expect(spendCell()).not.toBe(before), wait);
-    expect(screen.getByRole("button", { name: "Back to the recent average, radio in Hollowby Ardeval" })).toBeTruthy();
+    expect(screen.getByRole("button", { name: "Back to the recent average, Local radio in Hollowby Ardeval" })).toBeTruthy();
 
     const form = screen.getByRole("form", { name: "Save Scenario A" });
     fireEvent.change(within(form).getByLabelText("Save as"), { target: { value: "Radio off in Ardeval" } });
@@ -81,9 +105,9 @@ describe("SpendPlanner", () => {
 
   it("holds the forecast back while an edit is not a number, and says why", async () => {
     stubFetch({ "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()), "GET /api/plans": () => jsonResponse(200, []) });
-    renderWithProviders(<SpendPlanner user={testUsers.analyst} runner={inlinePlannerRunner()} />);
+    renderWithProviders(<SpendPlanner user={testUsers.analyst} channelName={channelName} runner={inlinePlannerRunner()} />);
     await screen.findByRole("table", { name: "Scenarios against the current plan" }, wait);
-    fireEvent.change(screen.getByRole("textbox", { name: "Planned weekly spend, search in Fennick Ardeval" }), { target: { value: "-40" } });
+    fireEvent.change(screen.getByRole("textbox", { name: "Planned weekly spend, Paid search in Fennick Ardeval" }), { target: { value: "-40" } });
     expect(screen.getByText("Every planned weekly spend must be a number of 0 or more.")).toBeTruthy();
     fireEvent.change(screen.getByLabelText("Weeks to plan"), { target: { value: "0" } });
     expect(screen.getByText("Weeks to plan must be a whole number from 1 to 156")).toBeTruthy();
@@ -94,7 +118,7 @@ describe("SpendPlanner", () => {
       "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire(undefined, ["c2"])),
       "GET /api/plans": () => jsonResponse(200, [savedPlan()]),
     });
-    renderWithProviders(<SpendPlanner user={testUsers.market_manager} runner={inlinePlannerRunner()} />);
+    renderWithProviders(<SpendPlanner user={testUsers.market_manager} channelName={channelName} runner={inlinePlannerRunner()} />);
     expect(await screen.findByText("You see and plan your own markets only.")).toBeTruthy();
     const current = await screen.findByRole("table", { name: "Current plan per line" }, wait);
     expect(within(current).getAllByRole("row")).toHaveLength(3);
@@ -106,7 +130,7 @@ describe("SpendPlanner", () => {
 
   it("says plainly when there is no published fit to plan with", async () => {
     stubFetch({ "GET /api/runs/current/draw-set": () => jsonResponse(404, { error: { code: "not_found", message: "No run has been published yet." } }) });
-    renderWithProviders(<SpendPlanner user={testUsers.portfolio_lead} runner={inlinePlannerRunner()} />);
+    renderWithProviders(<SpendPlanner user={testUsers.portfolio_lead} channelName={channelName} runner={inlinePlannerRunner()} />);
     expect(await screen.findByRole("heading", { name: "No published fit yet" })).toBeTruthy();
     expect(screen.getByRole("complementary", { name: "Caution about estimates" }).textContent).toMatch(/lift test/);
   });

@@ -79,5 +79,7 @@ describe("scenario drafts", () => {
     expect(describeOperation({ kind: "scale", factor: 1.2, target: { channels: ["search"], markets: ["Ardeval"] } }, 13)).toBe("search in Ardeval, weeks 1–13: multiply spend by 1.2");
     expect(describeOperation({ kind: "add", amountPerWeek: -300, target: { weeks: { from: 2, to: 2 } } }, 13)).toBe("every channel, week 3: cut 300 per week");
     expect(describeOperation({ kind: "zero", target: { brands: ["Hollowby"] } }, 8)).toBe("every channel of Hollowby, weeks 1–8: no spend");
+    const names = (code: string) => ({ search: "Paid search", online_video: "Online video" })[code] ?? code;
+    expect(describeOperation({ kind: "zero", target: { channels: ["search", "online_video"] } }, 4, names)).toBe("Paid search, Online video, weeks 1–4: no spend");
   });
 });
