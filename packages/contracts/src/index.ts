@@ -14,3 +14,4 @@ export * from "./plans";
 export * from "./people";
 export * from "./outbox";
 export * from "./reports";
+export * from "./portfolio-settings";
