@@ -14,7 +14,7 @@ import { apiErrorSchema, planSchema } from "@tributary/contracts";
 import { and, asc, eq } from "drizzle-orm";
 import request from "supertest";
 import { routeTable } from "../routes";
-import { datasetRows, modelSettings, users, outbox } from "../db/schema";
+import { channels, datasetRows, modelSettings, users, outbox } from "../db/schema";
 import { demoUsers } from "../demo/users";
 import { signedInAgent } from "../testing/test-app";
 import {
@@ -214,6 +214,13 @@ const table: Record<string, Entry> = {
     expect: open(201),
     endsSessions: true,
     request: async () => ({ params: { token: (await newInvitation(w)).token }, body: { name: "Nell Arbuckle", password: "lantern-orchard-quietly-9" } }),
+  },
+  "GET /api/portfolio-settings": { expect: adminsOnly(200) },
+  "PATCH /api/portfolio-settings/company": { expect: adminsOnly(200), request: () => ({ body: { companyName: "Quillfern Household Group" } }) },
+  "PUT /api/portfolio-settings/customer-values": { expect: adminsOnly(200), request: () => ({ body: { brands: [{ id: w.brandId.get("Kestrova")!, customerValue: 61 }] } }) },
+  "PUT /api/portfolio-settings/channels": {
+    expect: adminsOnly(200),
+    request: async () => ({ body: { channels: (await w.db.select({ id: channels.id, name: channels.name }).from(channels).orderBy(asc(channels.position))).map((c) => ({ id: c.id, name: c.name })) } }),
   },
   "GET /api/audit-log": { expect: adminsOnly(200) },
   "GET /api/outbox": { expect: adminsOnly(200) },

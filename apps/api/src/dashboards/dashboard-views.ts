@@ -45,8 +45,18 @@ function channelName(ctx: DashboardContext, code: string): string {
   return ctx.entities.channelByCode.get(code)?.name ?? code;
 }
 
+/** The run's channel indices in the workspace's display order (set by admins); channels it no longer lists go last. */
+function displayOrder(ctx: DashboardContext): number[] {
+  const position = new Map(ctx.entities.channels.map((channel, k) => [channel.code, k] as const));
+  const at = (c: number) => position.get(ctx.estimates.channels[c]!) ?? Number.MAX_SAFE_INTEGER;
+  return ctx.estimates.channels.map((_, c) => c).sort((a, b) => at(a) - at(b) || a - b);
+}
+
 function runChannels(ctx: DashboardContext) {
-  return ctx.estimates.channels.map((code) => ctx.entities.channelByCode.get(code) ?? { id: code, code, name: code });
+  return displayOrder(ctx).map((c) => {
+    const code = ctx.estimates.channels[c]!;
+    return ctx.entities.channelByCode.get(code) ?? { id: code, code, name: code };
+  });
 }
 
 /** Brands with at least one visible cell, by name. */
@@ -131,14 +141,18 @@ export function portfolioMapView(ctx: DashboardContext, channelParam: string | n
 // ---------------------------------------------------------------------------------
 
 function channelReferences(ctx: DashboardContext) {
-  return ctx.estimates.channels.map((code, c) => ({ channel: code, name: channelName(ctx, code), portfolioEffect: ctx.estimates.channelEffects[c]! }));
+  return displayOrder(ctx).map((c) => {
+    const code = ctx.estimates.channels[c]!;
+    return { channel: code, name: channelName(ctx, code), portfolioEffect: ctx.estimates.channelEffects[c]! };
+  });
 }
 
 export function brandComparisonView(ctx: DashboardContext): BrandComparison {
   const flagsOf = flagIndex(ctx.flags);
   const showBrandEffect = seesAllMarkets(ctx.user);
   const rows: BrandComparison["rows"] = [];
-  ctx.estimates.channels.forEach((code, c) => {
+  for (const c of displayOrder(ctx)) {
+    const code = ctx.estimates.channels[c]!;
     for (const brand of visibleBrands(ctx)) {
       const brandCells = ctx.cells.filter((cell) => cell.brand.id === brand.id);
       if (brandCells.length === 0) continue;
@@ -167,7 +181,7 @@ export function brandComparisonView(ctx: DashboardContext): BrandComparison {
         cells,
       });
     }
-  });
+  }
   return {
     run: ctx.run,
     currency: ctx.entities.currency,
@@ -232,6 +246,7 @@ export function deskChanges(ctx: DashboardContext, previous: RunEstimates | null
 
 export function marketDeskView(ctx: DashboardContext, previous: { run: Run; estimates: RunEstimates } | null, plans: DeskPlan[]): MarketDesk {
   const flagsOf = flagIndex(ctx.flags);
+  const order = displayOrder(ctx);
   const cells = ctx.cells.map(({ estimate: e, cellId, brand, market }) => ({
     cellId,
     brandId: brand.id,
@@ -241,7 +256,7 @@ export function marketDeskView(ctx: DashboardContext, previous: { run: Run; esti
     customerValue: brand.customerValue,
     weeks: e.weeks,
     lastWeek: e.lastWeek,
-    channels: e.channels.map((ch) => ({
+    channels: order.map((c) => e.channels[c]!).map((ch) => ({
       channel: ch.channel,
       channelName: channelName(ctx, ch.channel),
       hasSpend: ch.hasSpend,

@@ -204,6 +204,19 @@ const writes: Record<string, WriteCase> = {
     valid: () => ({ name: "Fuzz Person", password: "harbour-lantern-copper-8" }),
     runs: 8,
   },
+  "PATCH /api/portfolio-settings/company": { method: "patch", path: () => "/api/portfolio-settings/company", as: "admin", valid: () => ({ companyName: "Quillfern Household Group", currency: "EUR" }) },
+  "PUT /api/portfolio-settings/customer-values": {
+    method: "put",
+    path: () => "/api/portfolio-settings/customer-values",
+    as: "admin",
+    valid: () => ({ brands: [{ id: w.brandId.get("Kestrova"), customerValue: 58 }, { id: w.brandId.get("Plumrise"), customerValue: null }] }),
+  },
+  "PUT /api/portfolio-settings/channels": {
+    method: "put",
+    path: () => "/api/portfolio-settings/channels",
+    as: "admin",
+    valid: async () => ({ channels: (await w.db.select({ id: schema.channels.id, name: schema.channels.name }).from(schema.channels).orderBy(schema.channels.position)).map((c) => ({ id: c.id, name: c.name })) }),
+  },
   "POST /api/runs/:runId/publish": { method: "post", path: () => `/api/runs/${w.secondRunId}/publish`, as: "analyst", valid: () => ({ reason: "x" }), runs: 10 },
 };
 

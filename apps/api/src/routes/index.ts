@@ -8,6 +8,7 @@ import { flagRoutes } from "./flags";
 import { healthRoutes } from "./health";
 import { marketRoutes } from "./markets";
 import { portfolioRoutes } from "./portfolio";
+import { portfolioSettingsRoutes } from "./portfolio-settings";
 import { datasetRoutes } from "./datasets";
 import { liftTestRoutes } from "./lift-tests";
 import { modelSettingsRoutes } from "./model-settings";
@@ -34,6 +35,7 @@ export const routeTable: readonly Route[] = [
   ...flagRoutes,
   ...planRoutes,
   ...peopleRoutes,
+  ...portfolioSettingsRoutes,
   ...outboxRoutes,
   ...reportRoutes,
 ];
