@@ -91,7 +91,8 @@ export function invitationMessage(input: {
 export interface PublishedHeadline {
   readonly brand: string;
   readonly market: string;
-  readonly channel: string;
+  /** The channel's display name (the e-mail is read by people, not parsed). */
+  readonly channelName: string;
   readonly cacMedian: number;
   readonly cacLow: number;
   readonly cacHigh: number;
@@ -134,7 +135,7 @@ export function runPublishedMessage(input: {
       input.headlines.length > 0
         ? {
             head: ["Brand", "Market", "Channel", "Cost per customer (median)", "90 % interval"],
-            rows: input.headlines.map((h) => [h.brand, h.market, h.channel, money(h.cacMedian, input.currency), `${money(h.cacLow, input.currency)} – ${money(h.cacHigh, input.currency)}`]),
+            rows: input.headlines.map((h) => [h.brand, h.market, h.channelName, money(h.cacMedian, input.currency), `${money(h.cacLow, input.currency)} – ${money(h.cacHigh, input.currency)}`]),
           }
         : undefined,
     link: { label: "Open the Market desk", url: input.deskUrl },

@@ -3,7 +3,7 @@
 // not even through the analyst's publish reason.
 import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { runResultsSchema } from "@tributary/contracts";
+import { portfolioSchema, runResultsSchema } from "@tributary/contracts";
 import { hashPassword } from "../auth/password";
 import { closeDatabase } from "../db/client";
 import { markets, outbox, userMarkets, users } from "../db/schema";
@@ -72,8 +72,13 @@ describe("the publish e-mail", () => {
     expect(veltria).toHaveLength(4);
     const lines = mail.text.split("\n").filter((line) => line.includes(" | Veltria | "));
     expect(lines).toHaveLength(4);
+    // Channels by their display names ("Online video"), not their codes.
+    const portfolio = portfolioSchema.parse((await lead.get("/api/portfolio").expect(200)).body);
+    const channelName = new Map(portfolio.channels.map((c) => [c.code, c.name] as const));
     for (const cell of veltria) {
-      const line = lines.find((l) => l.startsWith(`${cell.brand} | Veltria | ${cell.channel} |`));
+      const name = channelName.get(cell.channel)!;
+      expect(name).not.toBe(cell.channel);
+      const line = lines.find((l) => l.startsWith(`${cell.brand} | Veltria | ${name} |`));
       expect(line).toBeDefined();
       // Rounded to 3 significant figures or so (0 decimals from 100, 1 from 10, else 2).
       const median = Number(line!.split(" | ")[3]!.replace(/[^0-9.]/g, ""));

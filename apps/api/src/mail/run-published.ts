@@ -7,6 +7,7 @@ import type { Logger } from "pino";
 import type { Database } from "../db/client";
 import { safeErrorForLog } from "../http/error-handler";
 import { markets, userMarkets, users } from "../db/schema";
+import { channelNames } from "../queries/channel-names";
 import { runRecord } from "../runs/run-queries";
 import { runResultsFor } from "../runs/run-results";
 import type { Mailer, MailMessage } from "./mailer";
@@ -27,6 +28,7 @@ export async function runPublishedMessages(db: Database, runId: string, baseUrl:
     .where(inArray(userMarkets.userId, managers.map((m) => m.id)))
     .orderBy(asc(markets.name));
   const run = await runRecord(db, runId);
+  const channelName = await channelNames(db);
   const messages: MailMessage[] = [];
   for (const manager of managers) {
     const own = scoped.filter((row) => row.userId === manager.id);
@@ -34,8 +36,8 @@ export async function runPublishedMessages(db: Database, runId: string, baseUrl:
     const results = await runResultsFor(db, run, { marketIds: own.map((m) => m.marketId), allMarkets: false });
     const headlines: PublishedHeadline[] = results.cells
       .filter((cell) => cell.hasSpend)
-      .map((cell) => ({ brand: cell.brand, market: cell.market, channel: cell.channel, cacMedian: cell.cac0.q50, cacLow: cell.cac0.q05, cacHigh: cell.cac0.q95 }))
-      .sort((a, b) => a.market.localeCompare(b.market) || a.brand.localeCompare(b.brand) || a.channel.localeCompare(b.channel));
+      .map((cell) => ({ brand: cell.brand, market: cell.market, channelName: channelName(cell.channel), cacMedian: cell.cac0.q50, cacLow: cell.cac0.q05, cacHigh: cell.cac0.q95 }))
+      .sort((a, b) => a.market.localeCompare(b.market) || a.brand.localeCompare(b.brand) || a.channelName.localeCompare(b.channelName));
     messages.push(
       runPublishedMessage({
         to: manager.email,

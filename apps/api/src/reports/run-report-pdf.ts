@@ -14,6 +14,8 @@ export interface RunReportInput {
   readonly company: string;
   readonly results: RunResults;
   readonly flags: readonly Flag[];
+  /** A channel's display name from its code: the report is read by people. */
+  readonly channelName: (code: string) => string;
   readonly generatedAt: Date;
   /** Compress content streams (default true; tests may read them plain). */
   readonly compress?: boolean;
@@ -34,11 +36,14 @@ function money(x: number, currency: string): string {
 
 const percent = (x: number | null) => (x === null ? "—" : `${Math.round(x * 100)} %`);
 
-/** Sorted rows of the report: by market, brand, channel. */
-function rowsOf(results: RunResults): CellChannelResultView[] {
+type ReportRow = CellChannelResultView & { readonly channelName: string };
+
+/** Sorted rows of the report: by market, brand, channel name. */
+function rowsOf(results: RunResults, channelName: (code: string) => string): ReportRow[] {
   return results.cells
     .filter((cell) => cell.hasSpend)
-    .sort((a, b) => a.market.localeCompare(b.market) || a.brand.localeCompare(b.brand) || a.channel.localeCompare(b.channel));
+    .map((cell) => ({ ...cell, channelName: channelName(cell.channel) }))
+    .sort((a, b) => a.market.localeCompare(b.market) || a.brand.localeCompare(b.brand) || a.channelName.localeCompare(b.channelName));
 }
 
 /** Log-scale ticks (1, 2, 5 × 10^k) covering [lo, hi]. */
@@ -71,7 +76,7 @@ export function renderRunReport(input: RunReportInput): Promise<Buffer> {
   const { results } = input;
   const run = results.run;
   const currency = results.currency;
-  const rows = rowsOf(results);
+  const rows = rowsOf(results, input.channelName);
   const left = PAGE.margin;
   const width = PAGE.width - 2 * PAGE.margin;
   const bottom = PAGE.height - PAGE.margin;
@@ -141,7 +146,7 @@ export function renderRunReport(input: RunReportInput): Promise<Buffer> {
         tableHeader();
       }
       const note = [row.outlier ? "candidate outlier" : null, input.flags.some((f) => f.cellId === row.cellId && f.channel === row.channel) ? "flagged" : null].filter(Boolean).join(", ");
-      const values = [row.brand, row.market, row.channel, money(row.cac0.q50, ""), `${money(row.cac0.q05, "")} – ${money(row.cac0.q95, "")}`, percent(row.shrinkage), note];
+      const values = [row.brand, row.market, row.channelName, money(row.cac0.q50, ""), `${money(row.cac0.q05, "")} – ${money(row.cac0.q95, "")}`, percent(row.shrinkage), note];
       let x = left;
       const y = doc.y;
       doc.font("Helvetica").fontSize(8.5).fillColor(INK);
@@ -193,7 +198,7 @@ export function renderRunReport(input: RunReportInput): Promise<Buffer> {
         onPage = 0;
       }
       const mid = y + rowHeight / 2;
-      doc.font("Helvetica").fontSize(8).fillColor(INK).text(`${row.brand} × ${row.market} · ${row.channel}`, left, mid - 4, { width: labelWidth - 8, lineBreak: false, ellipsis: true });
+      doc.font("Helvetica").fontSize(8).fillColor(INK).text(`${row.brand} × ${row.market} · ${row.channelName}`, left, mid - 4, { width: labelWidth - 8, lineBreak: false, ellipsis: true });
       const color = row.outlier ? WARN : ACCENT;
       doc.lineWidth(2).strokeColor(color).moveTo(xOf(row.cac0.q05), mid).lineTo(xOf(row.cac0.q95), mid).stroke();
       doc.circle(xOf(row.cac0.q50), mid, 2.6).fill(color);
@@ -215,12 +220,12 @@ export function renderRunReport(input: RunReportInput): Promise<Buffer> {
   const pooled = rows.filter((r) => r.shrinkage !== null);
   if (pooled.length > 0) {
     const strongest = [...pooled].sort((a, b) => (b.shrinkage ?? 0) - (a.shrinkage ?? 0)).slice(0, 5);
-    paragraph(`Cells with little or noisy data borrow strength from their peers. Most pulled toward the portfolio: ${strongest.map((r) => `${r.brand} × ${r.market}, ${r.channel} (${percent(r.shrinkage)})`).join("; ")}.`);
+    paragraph(`Cells with little or noisy data borrow strength from their peers. Most pulled toward the portfolio: ${strongest.map((r) => `${r.brand} × ${r.market}, ${r.channelName} (${percent(r.shrinkage)})`).join("; ")}.`);
   } else paragraph("This fit has no no-pooling comparison, so shrinkage is not shown.", MUTED);
   const outliers = rows.filter((r) => r.outlier);
-  for (const r of outliers) paragraph(`Candidate outlier — ${r.brand} × ${r.market}, ${r.channel}: ${r.outlierReason ?? "its own estimate differs from its peers more than pooling explains"}.`, WARN);
+  for (const r of outliers) paragraph(`Candidate outlier — ${r.brand} × ${r.market}, ${r.channelName}: ${r.outlierReason ?? "its own estimate differs from its peers more than pooling explains"}.`, WARN);
   if (outliers.length === 0) paragraph("No cell × channel was marked as a candidate outlier.", MUTED);
-  for (const flag of input.flags) paragraph(`Flag (${flagKindLabels[flag.kind]}) — ${flag.brand} × ${flag.market}, ${flag.channel}: ${flag.note}`);
+  for (const flag of input.flags) paragraph(`Flag (${flagKindLabels[flag.kind]}) — ${flag.brand} × ${flag.market}, ${flag.channelName}: ${flag.note}`);
   if (input.flags.length === 0) paragraph("No analyst flags on these cells.", MUTED);
 
   // ── cautions ──

@@ -4,7 +4,7 @@
 import { inflateSync } from "node:zlib";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { runResultsSchema } from "@tributary/contracts";
+import { portfolioSchema, runResultsSchema } from "@tributary/contracts";
 import { closeDatabase } from "../db/client";
 import { brands, markets } from "../db/schema";
 import { demoUsers } from "../demo/users";
@@ -109,6 +109,16 @@ describe("the run report", () => {
     for (const cell of results.cells.filter((c) => c.brand === "Kestrova" && c.hasSpend)) {
       expect(text).toContain(money(cell.cac0.q50));
       expect(text).toContain(`${money(cell.cac0.q05)} – ${money(cell.cac0.q95)}`);
+    }
+    // Channels read by their display names ("Online video"), never their codes, in the table's cells.
+    const portfolio = portfolioSchema.parse((await lead.get("/api/portfolio").expect(200)).body);
+    const lines = text.split("\n");
+    const shown = new Set(results.cells.filter((c) => c.brand === "Kestrova" && c.hasSpend).map((c) => c.channel));
+    expect(shown.size).toBeGreaterThan(1);
+    for (const channel of portfolio.channels.filter((c) => shown.has(c.code))) {
+      expect(channel.name).not.toBe(channel.code);
+      expect(lines).toContain(channel.name);
+      expect(lines).not.toContain(channel.code);
     }
     // The intervals chart is drawn with vector paths: lines and circles (Bézier curves).
     const content = contentStreams(pdf).join("\n");

@@ -8,6 +8,7 @@ import { defineRoute, markets as marketRules, signedIn } from "../access/route-t
 import { brands, markets, workspaceSettings } from "../db/schema";
 import { listFlags } from "../dashboards/flags";
 import { NotFound } from "../http/errors";
+import { channelNames } from "../queries/channel-names";
 import { renderRunReport } from "../reports/run-report-pdf";
 import { currentRunId, runRecord } from "../runs/run-queries";
 import { runResultsFor } from "../runs/run-results";
@@ -48,6 +49,7 @@ export const reportRoutes = [
         company: settings?.company ?? "",
         results: { ...all, cells },
         flags,
+        channelName: await channelNames(db),
         generatedAt: now,
       });
       res.status(200);
