@@ -18,8 +18,11 @@ export function toCsv(fields: readonly string[], rows: readonly (readonly Cell[]
 
 const round = (x: number, digits = 2) => Math.round(x * 10 ** digits) / 10 ** digits;
 
-/** Allocation per cell × channel over the horizon. `set` holds the plan's cells in the plan's order. */
-export function allocationCsv(kind: "scenario" | "budget_split", body: PlanBody, set: DrawSet): string {
+/**
+ * Allocation per cell × channel over the horizon. `set` holds the plan's cells in the plan's
+ * order. Like brand and market, the channel is written by its display name: the file is read, not re-imported.
+ */
+export function allocationCsv(kind: "scenario" | "budget_split", body: PlanBody, set: DrawSet, channelName: (code: string) => string): string {
   if (kind === "budget_split") {
     const split = body.budgetSplit!;
     return toCsv(
@@ -27,7 +30,7 @@ export function allocationCsv(kind: "scenario" | "budget_split", body: PlanBody,
       split.result.lines.map((line) => [
         line.brand,
         line.market,
-        line.channel,
+        channelName(line.channel),
         round(line.allocation),
         round(line.weeklyAllocation),
         round(line.current),
@@ -50,7 +53,7 @@ export function allocationCsv(kind: "scenario" | "budget_split", body: PlanBody,
         now += reference.spend[planIndex(reference, i, c, h)]!;
         then += plan.spend[planIndex(plan, i, c, h)]!;
       }
-      rows.push([cell.brand, cell.market, channel, round(now), round(then), round(then - now)]);
+      rows.push([cell.brand, cell.market, channelName(channel), round(now), round(then), round(then - now)]);
     });
   });
   return toCsv(["brand", "market", "channel", "current_plan_spend", "scenario_spend", "change"], rows);

@@ -20,6 +20,7 @@ import { defineRoute, markets, signedIn } from "../access/route-table";
 import { Invalid } from "../http/errors";
 import { allocationCsv, forecastCsv } from "../plans/plan-csv";
 import { listPlanSummaries, planMarkets, planView, bodyOf } from "../plans/plan-records";
+import { channelNames } from "../queries/channel-names";
 import {
   createBudgetSplitPlan,
   createScenarioPlan,
@@ -160,7 +161,7 @@ export const planRoutes = [
         const indices = body.cellIds.map((id) => position.get(id));
         if (indices.some((g) => g === undefined)) throw new Invalid("The plan names a cell its fit does not have");
         const set = drawSetOfCells(draws.set, indices as number[]);
-        sendCsv(res, `${row.name}-${table}`, table === "allocation" ? allocationCsv(row.kind, body, set) : forecastCsv(row.kind, body, set));
+        sendCsv(res, `${row.name}-${table}`, table === "allocation" ? allocationCsv(row.kind, body, set, await channelNames(db)) : forecastCsv(row.kind, body, set));
       },
     }),
   ),
