@@ -37,14 +37,19 @@ describe("planning", () => {
     expect(cellLabels.length).toBeGreaterThan(0);
     for (const label of cellLabels) expect(label).toMatch(/ in Veltria$/);
     for (const row of await current.getByRole("row").allTextContents()) if (!row.startsWith("Cell")) expect(row).toMatch(/in Veltria/);
+    // Channels read by their display names; the codes stay the values.
+    await current.getByRole("cell", { name: "Online video", exact: true }).first().waitFor();
+    expect(await current.getByRole("cell", { name: "online_video", exact: true }).count()).toBe(0);
+    await current.getByRole("textbox", { name: /^Planned weekly spend, Online video in \w+ Veltria$/ }).first().waitFor();
 
     const scenario = page.getByRole("region", { name: /^Scenario / }).first();
     await scenario.getByLabel("Scenario name").fill(`Veltria: more search, audio paused ${stamp}`);
     const name = `Veltria: more search, audio paused ${stamp}`;
     const first = `change 1 of ${name}`;
-    const channels = await scenario.getByRole("combobox", { name: `Channel of ${first}` }).evaluate((select) => [...(select as HTMLSelectElement).options].map((o) => o.value));
-    const search = channels.find((value) => /search/i.test(value));
-    const audio = channels.find((value) => /audio/i.test(value));
+    const channels = await scenario.getByRole("combobox", { name: `Channel of ${first}` }).evaluate((select) => [...(select as HTMLSelectElement).options].map((o) => ({ value: o.value, label: o.textContent ?? "" })));
+    expect(channels).toContainEqual({ value: "online_video", label: "Online video" });
+    const search = channels.find((option) => /search/i.test(option.value))?.value;
+    const audio = channels.find((option) => /audio/i.test(option.value))?.value;
     expect(search && audio).toBeTruthy();
     await scenario.getByRole("combobox", { name: `Channel of ${first}` }).selectOption(search!);
     await scenario.getByRole("textbox", { name: `Factor, ${first}` }).fill("1.4");
@@ -84,7 +89,7 @@ describe("planning", () => {
     const form = page.getByRole("form", { name: "Budget split inputs" });
     await form.waitFor({ timeout: 60_000 });
     // Keep some TV in every cell: a lower bound per line, over the 13 weeks.
-    await form.getByRole("textbox", { name: /^Lower bound, (tv|TV)$/ }).fill("50000");
+    await form.getByRole("textbox", { name: "Lower bound, TV", exact: true }).fill("50000");
     await form.getByRole("button", { name: "Split the budget" }).click();
 
     const check = page.getByRole("region", { name: "Check: equal return at the margin" }).first();
@@ -92,7 +97,10 @@ describe("planning", () => {
     expect(await check.getAttribute("data-marginal-equal")).toBe("true");
     expect(await check.textContent()).toMatch(/per 1,000 EUR/);
     const atBounds = page.getByRole("region", { name: "Lines at a bound" }).first();
-    expect(await atBounds.textContent()).toMatch(/tv in \w+ \w+: at its lower bound \(€50,000\)/i);
+    expect(await atBounds.textContent()).toMatch(/TV in \w+ \w+: at its lower bound \(€50,000\)/);
+    const allocationCells = await page.getByRole("table", { name: "Allocation per line" }).first().getByRole("cell").allTextContents();
+    expect(allocationCells.filter((text) => ["Search", "Social", "Online video", "TV", "Audio"].includes(text)).length).toBeGreaterThan(0);
+    expect(allocationCells.filter((text) => ["search", "social", "online_video", "tv", "audio"].includes(text))).toEqual([]);
     await page.getByRole("figure", { name: /How the new customers could turn out/ }).locator("svg").first().waitFor();
     await page.getByRole("figure", { name: /The split against the current spend/ }).locator("svg").first().waitFor();
     expect(await page.getByRole("complementary", { name: "Caution about estimates" }).count()).toBeGreaterThanOrEqual(2);
