@@ -30,6 +30,7 @@ const screenModules: Record<ScreenKey, () => Promise<ScreenRouteModule>> = {
   spendPlanner: () => import("./routes/app/spend-planner"),
   budgetSplit: () => import("./routes/app/budget-split"),
   peopleAccess: () => import("./routes/app/people-access"),
+  portfolioSettings: () => import("./routes/app/portfolio-settings"),
   outbox: () => import("./routes/app/outbox"),
 };
 

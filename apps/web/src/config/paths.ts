@@ -36,6 +36,7 @@ export const paths = {
     spendPlanner: { path: "/spend-planner", getHref: () => "/spend-planner" },
     budgetSplit: { path: "/budget-split", getHref: () => "/budget-split" },
     peopleAccess: { path: "/people-access", getHref: () => "/people-access" },
+    portfolioSettings: { path: "/portfolio-settings", getHref: () => "/portfolio-settings" },
     outbox: { path: "/outbox", getHref: () => "/outbox" },
   },
   /** Pages below a screen, open to the same roles as the screen they belong to. */

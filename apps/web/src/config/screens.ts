@@ -22,5 +22,6 @@ export const screens: Record<ScreenKey, { label: string; section: ScreenSection 
   spendPlanner: { label: "Spend planner", section: "planning" },
   budgetSplit: { label: "Budget split", section: "planning" },
   peopleAccess: { label: "People & access", section: "workspace" },
+  portfolioSettings: { label: "Portfolio settings", section: "workspace" },
   outbox: { label: "Outbox", section: "workspace" },
 };

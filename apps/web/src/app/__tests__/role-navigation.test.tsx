@@ -18,12 +18,13 @@ describe("app navigation by role", () => {
     expect(screen.getByText("Markets: Briskmoor")).toBeTruthy();
   });
 
-  it("shows every screen to the admin, People & access and Outbox included", async () => {
+  it("shows every screen to the admin, People & access, Portfolio settings and Outbox included", async () => {
     renderApp("/portfolio-map", signedInRoutes(testUsers.admin));
     expect(await screen.findByRole("heading", { level: 1, name: "Portfolio map" })).toBeTruthy();
     const links = mainNavigationLinks();
-    expect(links).toHaveLength(12);
+    expect(links).toHaveLength(13);
     expect(links).toContain("People & access");
+    expect(links).toContain("Portfolio settings");
     expect(links).toContain("Outbox");
     expect(screen.getByRole("link", { name: "Portfolio map" }).getAttribute("aria-current")).toBe("page");
   });

@@ -1,0 +1,31 @@
+import { PageHeader } from "../../../components/ui/page-header";
+import { ErrorState } from "../../../components/ui/error-state";
+import { LoadingState } from "../../../components/ui/loading-state";
+import { usePortfolioSettings } from "../api/get-portfolio-settings";
+import { ChannelsForm } from "./channels-form";
+import { CompanyForm } from "./company-form";
+import { CustomerValuesForm } from "./customer-values-form";
+
+/** Admins: the company name, reporting currency, customer value per brand, and the channels' names and order. */
+export function PortfolioSettings() {
+  const settings = usePortfolioSettings();
+  return (
+    <>
+      <PageHeader
+        title="Portfolio settings"
+        description="What the whole workspace shares: the company name, the currency money is labelled in, what a new customer is worth to each brand, and how channels are named and ordered. Every change is in the audit log."
+      />
+      {settings.isPending ? (
+        <LoadingState label="Loading the portfolio settings…" />
+      ) : settings.isError ? (
+        <ErrorState title="The portfolio settings could not be loaded" message={settings.error.message} onRetry={() => void settings.refetch()} />
+      ) : (
+        <div className="space-y-8">
+          <CompanyForm settings={settings.data} />
+          <CustomerValuesForm settings={settings.data} />
+          <ChannelsForm settings={settings.data} />
+        </div>
+      )}
+    </>
+  );
+}

@@ -1,0 +1,22 @@
+import { ApiError } from "../../../lib/api-client";
+
+/**
+ * A form's outcome: why the server refused (when its problems are all shown beside the
+ * fields, a pointer to them) or what was saved.
+ */
+export function SaveFeedback({ error, done, fallback, isFieldPath }: { error: Error | null; done: string | null; fallback: string; isFieldPath: (path: string) => boolean }) {
+  if (error) {
+    const atFields = error instanceof ApiError && error.issues.length > 0 && error.issues.every((issue) => isFieldPath(issue.path));
+    const message = atFields ? "check the fields marked above." : error instanceof ApiError ? error.message : fallback;
+    return (
+      <p role="alert" className="text-small font-medium text-alert-700">
+        Not saved: {message}
+      </p>
+    );
+  }
+  return (
+    <p role="status" className="min-h-5 text-small font-medium text-ok-700">
+      {done ?? ""}
+    </p>
+  );
+}
