@@ -11,7 +11,7 @@ function labelsFor(role: Role): string[] {
 describe("role-based navigation", () => {
   it("gives the admin every screen", () => {
     expect(labelsFor("admin")).toEqual(Object.values(screens).map((screen) => screen.label));
-    expect(labelsFor("admin")).toHaveLength(12);
+    expect(labelsFor("admin")).toHaveLength(13);
   });
 
   it("gives the portfolio lead the dashboards and planning", () => {
@@ -29,6 +29,7 @@ describe("role-based navigation", () => {
     const labels = labelsFor("analyst");
     expect(labels).toEqual(expect.arrayContaining(["Data intake", "Model setup", "Runs", "Pooling review", "Spend planner", "Budget split"]));
     expect(labels).not.toContain("People & access");
+    expect(labels).not.toContain("Portfolio settings");
     expect(labels).not.toContain("Outbox");
   });
 
@@ -40,7 +41,7 @@ describe("role-based navigation", () => {
       "Channel sheet",
       "Spend planner",
     ]);
-    for (const screen of ["dataIntake", "modelSetup", "runs", "poolingReview", "budgetSplit", "peopleAccess", "outbox"] as ScreenKey[]) {
+    for (const screen of ["dataIntake", "modelSetup", "runs", "poolingReview", "budgetSplit", "peopleAccess", "portfolioSettings", "outbox"] as ScreenKey[]) {
       expect(canUseScreen("market_manager", screen)).toBe(false);
     }
   });
