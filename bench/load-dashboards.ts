@@ -253,16 +253,17 @@ try {
   const reviewers = people.filter((p) => reviewRoles.has(p.key));
   const every = (paths: (person: (typeof people)[number]) => string[], who = people): CannonRequest[] =>
     who.flatMap((person) => paths(person).map((path) => ({ method: "GET" as const, path, headers: person.headers })));
-  // The dashboards' JSON reads of the route table (CSV exports are downloads, not screen loads, and are left out).
+  // What the dashboard screens read (the route table's /api/dashboards/* JSON routes and the flags they list),
+  // plus the Runs list. CSV exports are downloads, not screen loads, and are left out; so is /api/runs/current,
+  // the results API for scripts, which no screen reads.
   const routes: RouteLoad[] = [
     { name: "portfolio map", requests: every((p) => ["/api/dashboards/portfolio-map", ...p.channels.map((c) => `/api/dashboards/portfolio-map?channel=${c}`)]) },
     { name: "brand comparison", requests: every(() => ["/api/dashboards/brand-comparison"]) },
     { name: "market desk", requests: every(() => ["/api/dashboards/market-desk"]) },
     { name: "channel sheets", requests: every((p) => p.sheets) },
     { name: "pooling review", requests: every(() => ["/api/dashboards/pooling-review"], reviewers) },
-    { name: "flags", requests: every(() => ["/api/flags", "/api/flags?status=active"]) },
+    { name: "flags", requests: every(() => ["/api/flags?status=all", "/api/flags?status=active"]) },
     { name: "dashboard status", requests: every(() => ["/api/dashboards/status"]) },
-    { name: "runs/current", requests: every(() => ["/api/runs/current"]) },
     { name: "runs list", requests: every(() => ["/api/runs"], reviewers) },
   ];
   // Every request once, so first-request computations (channel sheets) are not what is measured;
@@ -299,9 +300,9 @@ try {
     const now = runSchema.parse(await analyst.json("GET", `/api/runs/${run.id}`));
     return now.status === "running" ? (now.progress?.fraction ?? 0) : null;
   };
-  await pollUntil("the fit to start sampling", async () => ((await fitProgress()) !== null ? true : undefined), 120_000, 250);
+  await pollUntil("the fit to start", async () => ((await fitProgress()) !== null ? true : undefined), 10 * 60_000, 250);
   // Past the chain threads' start-up (they load the sampler's code), so the load meets the sampling itself.
-  await pollUntil("the fit's chains to report progress", async () => (((await fitProgress()) ?? 0) > 0 ? true : undefined), 120_000, 250);
+  await pollUntil("the fit's chains to report progress", async () => (((await fitProgress()) ?? 0) > 0 ? true : undefined), 10 * 60_000, 250);
   const underFit = await drive(baseUrl, routes, pid, fitProgress);
   const fitStillRunning = (await fitProgress()) !== null;
 
