@@ -44,6 +44,11 @@ export function ChannelsForm({ settings }: { settings: PortfolioSettings }) {
     setAnnouncement(`${names[from]?.name ?? "Channel"} moved to position ${to + 1} of ${fields.length}.`);
   };
 
+  // A new edit makes the last "Saved" message stale.
+  useEffect(() => {
+    if (isDirty) setDone(null);
+  }, [isDirty]);
+
   const submit = form.handleSubmit((values) => {
     setDone(null);
     update.mutate(values, {
@@ -100,8 +105,8 @@ export function ChannelsForm({ settings }: { settings: PortfolioSettings }) {
               const code = codeOf.get(field.id) ?? "";
               const label = names[k]?.name?.trim() || code;
               return (
-                <tr key={field.key} className="border-b border-line/70 align-top">
-                  <td className="py-2.5 pr-3 tabular-nums text-ink-600">{k + 1}</td>
+                <tr key={field.key} className="border-b border-line/70 align-middle">
+                  <td className="py-2 pr-3 tabular-nums text-ink-600">{k + 1}</td>
                   <td className="py-2 pr-4">
                     <label htmlFor={inputId} className="sr-only">
                       Display name of {code}
@@ -122,7 +127,7 @@ export function ChannelsForm({ settings }: { settings: PortfolioSettings }) {
                       </p>
                     ) : null}
                   </td>
-                  <td className="py-2.5 pr-4 font-mono text-caption text-ink-700">{code}</td>
+                  <td className="py-2 pr-4 font-mono text-caption text-ink-700">{code}</td>
                   <td className="py-1.5">
                     <div className="flex gap-1">
                       <Button
@@ -156,13 +161,7 @@ export function ChannelsForm({ settings }: { settings: PortfolioSettings }) {
       <p className="sr-only" aria-live="polite">
         {announcement}
       </p>
-      <SaveFeedback
-        error={update.error}
-        done={done}
-        fallback="The channels could not be saved. Please try again."
-        isFieldPath={(path) => /^channels\.\d+\.name$/.test(path)}
-      />
-      <div className="flex gap-2">
+      <div className="flex flex-wrap items-center gap-2">
         <Button type="submit" disabled={update.isPending || !isDirty}>
           {update.isPending ? "Saving…" : "Save channels"}
         </Button>
@@ -172,11 +171,18 @@ export function ChannelsForm({ settings }: { settings: PortfolioSettings }) {
           onClick={() => {
             form.reset(valuesOf(settings));
             setDone(null);
+            update.reset();
             setAnnouncement("");
           }}
         >
           Undo changes
         </Button>
+        <SaveFeedback
+          error={update.error}
+          done={done}
+          fallback="The channels could not be saved. Please try again."
+          isFieldPath={(path) => /^channels\.\d+\.name$/.test(path)}
+        />
       </div>
     </form>
   );

@@ -1,6 +1,6 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { currencyCodes, type PortfolioSettings } from "@tributary/contracts";
-import { useMemo, useState } from "react";
+import { useEffect, useMemo, useState } from "react";
 import { Controller, useForm } from "react-hook-form";
 import type { z } from "zod";
 import { Button } from "../../../components/ui/button";
@@ -39,6 +39,11 @@ export function CompanyForm({ settings }: { settings: PortfolioSettings }) {
     const codes = currencyCodes().includes(settings.currency) ? currencyCodes() : [settings.currency, ...currencyCodes()];
     return codes.map((code) => ({ code, label: currencyLabel(code, names) }));
   }, [settings.currency]);
+
+  // A new edit makes the last "Saved" message stale.
+  useEffect(() => {
+    if (isDirty) setDone(null);
+  }, [isDirty]);
 
   const submit = form.handleSubmit((values) => {
     setDone(null);
@@ -124,13 +129,7 @@ export function CompanyForm({ settings }: { settings: PortfolioSettings }) {
         costs per customer and customer values stay as they are and are shown with the new code.
         {currencyChanged ? ` Every figure now in ${settings.currency} will read as ${chosenCurrency}. Only do this to correct the label, or after uploading the data in ${chosenCurrency}.` : ""}
       </p>
-      <SaveFeedback
-        error={update.error}
-        done={done}
-        fallback="The company settings could not be saved. Please try again."
-        isFieldPath={(path) => path === "companyName" || path === "currency"}
-      />
-      <div className="flex gap-2">
+      <div className="flex flex-wrap items-center gap-2">
         <Button type="submit" disabled={update.isPending || !isDirty}>
           {update.isPending ? "Saving…" : "Save company"}
         </Button>
@@ -140,10 +139,17 @@ export function CompanyForm({ settings }: { settings: PortfolioSettings }) {
           onClick={() => {
             form.reset(saved);
             setDone(null);
+            update.reset();
           }}
         >
           Undo changes
         </Button>
+        <SaveFeedback
+          error={update.error}
+          done={done}
+          fallback="The company settings could not be saved. Please try again."
+          isFieldPath={(path) => path === "companyName" || path === "currency"}
+        />
       </div>
     </form>
   );

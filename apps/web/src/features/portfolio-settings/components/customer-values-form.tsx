@@ -1,6 +1,6 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import type { PortfolioSettings } from "@tributary/contracts";
-import { useState } from "react";
+import { useEffect, useState } from "react";
 import { useFieldArray, useForm } from "react-hook-form";
 import type { z } from "zod";
 import { Button } from "../../../components/ui/button";
@@ -32,6 +32,11 @@ export function CustomerValuesForm({ settings }: { settings: PortfolioSettings }
   const [done, setDone] = useState<string | null>(null);
   const { errors, isDirty } = form.formState;
   const currency = settings.currency;
+
+  // A new edit makes the last "Saved" message stale.
+  useEffect(() => {
+    if (isDirty) setDone(null);
+  }, [isDirty]);
 
   const submit = form.handleSubmit((values) => {
     setDone(null);
@@ -99,8 +104,8 @@ export function CustomerValuesForm({ settings }: { settings: PortfolioSettings }
               const error = errors.brands?.[k]?.customerValue;
               const inputId = `customer-value-${k}`;
               return (
-                <tr key={field.key} className="border-b border-line/70 align-top">
-                  <th scope="row" className="py-2.5 pr-4 text-left font-medium text-ink-900">
+                <tr key={field.key} className="border-b border-line/70 align-middle">
+                  <th scope="row" className="py-2 pr-4 text-left font-medium text-ink-900">
                     <label htmlFor={inputId}>{brand?.name ?? field.id}</label>
                   </th>
                   <td className="py-2 pr-4">
@@ -126,20 +131,14 @@ export function CustomerValuesForm({ settings }: { settings: PortfolioSettings }
                       </p>
                     ) : null}
                   </td>
-                  <td className="py-2.5 tabular-nums text-ink-700">{brand?.customerValue == null ? "not known" : formatMoney(brand.customerValue, currency)}</td>
+                  <td className="py-2 tabular-nums text-ink-700">{brand?.customerValue == null ? "not known" : formatMoney(brand.customerValue, currency)}</td>
                 </tr>
               );
             })}
           </tbody>
         </table>
       )}
-      <SaveFeedback
-        error={update.error}
-        done={done}
-        fallback="The customer values could not be saved. Please try again."
-        isFieldPath={(path) => /^brands\.\d+\.customerValue$/.test(path)}
-      />
-      <div className="flex gap-2">
+      <div className="flex flex-wrap items-center gap-2">
         <Button type="submit" disabled={update.isPending || !isDirty}>
           {update.isPending ? "Saving…" : "Save customer values"}
         </Button>
@@ -149,10 +148,17 @@ export function CustomerValuesForm({ settings }: { settings: PortfolioSettings }
           onClick={() => {
             form.reset(valuesOf(settings));
             setDone(null);
+            update.reset();
           }}
         >
           Undo changes
         </Button>
+        <SaveFeedback
+          error={update.error}
+          done={done}
+          fallback="The customer values could not be saved. Please try again."
+          isFieldPath={(path) => /^brands\.\d+\.customerValue$/.test(path)}
+        />
       </div>
     </form>
   );

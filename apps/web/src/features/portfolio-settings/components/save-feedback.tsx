@@ -9,13 +9,13 @@ export function SaveFeedback({ error, done, fallback, isFieldPath }: { error: Er
     const atFields = error instanceof ApiError && error.issues.length > 0 && error.issues.every((issue) => isFieldPath(issue.path));
     const message = atFields ? "check the fields marked above." : error instanceof ApiError ? error.message : fallback;
     return (
-      <p role="alert" className="text-small font-medium text-alert-700">
+      <p role="alert" className="ml-2 text-small font-medium text-alert-700">
         Not saved: {message}
       </p>
     );
   }
   return (
-    <p role="status" className="min-h-5 text-small font-medium text-ok-700">
+    <p role="status" className="ml-2 text-small font-medium text-ok-700">
       {done ?? ""}
     </p>
   );
