@@ -17,6 +17,7 @@ const everyScreen = [
   "Spend planner",
   "Budget split",
   "People & access",
+  "Portfolio settings",
   "Outbox",
 ];
 
@@ -58,7 +59,7 @@ describe("market manager", () => {
     });
     expect(apiMarkets).toEqual(["Veltria"]);
 
-    for (const path of ["/people-access", "/outbox", "/data-intake", "/budget-split"]) {
+    for (const path of ["/people-access", "/portfolio-settings", "/outbox", "/data-intake", "/budget-split"]) {
       await page.goto(`${server.baseUrl}${path}`);
       await page.getByRole("heading", { name: /is not available for your role/ }).waitFor();
     }
@@ -87,7 +88,7 @@ describe("admin", () => {
     expect(await headingText(page)).toBe("Portfolio map");
     expect(await navigationLabels(page)).toEqual(everyScreen);
     expect((await portfolioGridMarkets(page)).sort()).toEqual(demoMarkets.map((market) => market.name).sort());
-    for (const label of ["People & access", "Outbox"]) {
+    for (const label of ["People & access", "Portfolio settings", "Outbox"]) {
       await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: label }).click();
       await page.getByRole("heading", { level: 1, name: label }).waitFor();
     }
