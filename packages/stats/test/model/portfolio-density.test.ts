@@ -76,9 +76,22 @@ describe("pooled portfolio density", () => {
     const cols = new ParameterColumns(model.constrainedNames);
     const lay = model.layout;
     const k = model.constants;
-    // the small portfolio exercises guided and exactly non-centred cell effects
+    // the small portfolio exercises guided and exactly non-centred cell effects, and a guide that follows α and λ
     expect(lay.guidePrecision.some((b) => b > 0)).toBe(true);
     expect(lay.guidePrecision.some((b) => b === 0)).toBe(true);
+    expect(lay.guideSlopeAlpha.some((s) => s !== 0)).toBe(true);
+    expect(lay.guideSlopeLogLambda.some((s) => s !== 0)).toBe(true);
+    const C = k.channelCount;
+    const guideMeanAt = (gc: number): number => {
+      let m = lay.guideMean[gc]!;
+      k.channels.forEach((name, c) => {
+        const alpha = out[cols.channel("alpha", name)]!;
+        const lambda = out[cols.channel("lambda", name)]!;
+        m += lay.guideSlopeAlpha[gc * C + c]! * (Math.log(alpha / (1 - alpha)) - lay.guideLogitAlpha[c]!);
+        m += lay.guideSlopeLogLambda[gc * C + c]! * (Math.log(lambda) - lay.guideLogLambda[c]!);
+      });
+      return m;
+    };
     k.channels.forEach((ch, c) => {
       for (let g = 0; g < k.cellCount; g++) {
         const tau = out[cols.channel("tauCell", ch)]!;
@@ -88,7 +101,7 @@ describe("pooled portfolio density", () => {
           out[cols.indexOf(`marketDeviation[${k.cellMarket[g]},${ch}]`)]!;
         const b = lay.guidePrecision[g * 3 + c]!;
         const v = 1 / (1 / (tau * tau) + b);
-        const expected = v * (group / (tau * tau) + b * lay.guideMean[g * 3 + c]!) + Math.sqrt(v) * q[lay.zCell + g * 3 + c]!;
+        const expected = v * (group / (tau * tau) + b * guideMeanAt(g * 3 + c)) + Math.sqrt(v) * q[lay.zCell + g * 3 + c]!;
         expect(Math.log(out[cols.cellChannel("beta", g, ch)]!)).toBeCloseTo(expected, 12);
         expect(out[cols.cellChannel("cellDeviation", g, ch)]).toBeCloseTo(expected - group, 12);
         if (b === 0) expect(expected - group).toBeCloseTo(tau * q[lay.zCell + g * 3 + c]!, 12);

@@ -68,30 +68,54 @@ export function referenceLogDensity(model: PortfolioDensity, data: PortfolioData
     }
   });
   if (pooled) {
-    // zB = brand deviation / τB (and likewise for markets); the sampler's coordinate maps to
-    // it through δ = v·S + √v·u with v = 1/(1/τ² + P), P = Σ over the level's guided cells of
-    // 1/(τG² + ŝ² [+ τM² for brands]): log-Jacobian log √v − log τ
-    const levels = [
-      ["tauBrand", "brandDeviation", brands, (g: number) => brands.indexOf(data.cells[g]!.brand)],
-      ["tauMarket", "marketDeviation", markets, (g: number) => markets.indexOf(data.cells[g]!.market)],
-    ] as const;
-    for (const [tauName, devName, units, unitOf] of levels) {
-      channels.forEach((ch, c) => {
-        if (!model.constrainedNames.includes(`${tauName}[${ch}]`)) return;
-        const tau = value(`${tauName}[${ch}]`);
-        const tauG = value(`tauCell[${ch}]`);
-        const tauM = tauName === "tauBrand" && model.constrainedNames.includes(`tauMarket[${ch}]`) ? value(`tauMarket[${ch}]`) : 0;
-        units.forEach((_, j) => {
-          lp += logNormal(value(`${devName}[${j},${ch}]`) / tau, 0, 1);
-          let P = 0;
-          data.cells.forEach((__, g) => {
-            const prec = lay.guidePrecision[g * C + c]!;
-            if (unitOf(g) === j && prec > 0) P += 1 / (tauG * tauG + 1 / prec + tauM * tauM);
-          });
-          jac += 0.5 * Math.log(1 / (1 / (tau * tau) + P)) - Math.log(tau);
+    // μ and zB = brand deviation / τB are built together: the sampler's coordinates map to
+    // x = (μ − m0, δB) through x = Λ⁻¹h + chol(Λ)⁻ᵀu with Λ = diag(1/s0², I/τB²) + Zᵀ Σ⁻¹ Z,
+    // where Σ is the covariance of the guided cells' estimates given μ and the brand
+    // deviations (τM² shared within a market, τG² + ŝ² per cell) and Z picks each cell's
+    // units (μ, and its brand when the brand level is on):
+    // log-Jacobian −½ log det Λ − B log τB (− log s0, a constant).
+    channels.forEach((ch, c) => {
+      const brandOn = model.constrainedNames.includes(`tauBrand[${ch}]`);
+      const tauB = brandOn ? value(`tauBrand[${ch}]`) : 0;
+      const tauG = value(`tauCell[${ch}]`);
+      const tauM = model.constrainedNames.includes(`tauMarket[${ch}]`) ? value(`tauMarket[${ch}]`) : 0;
+      const [lo, hi] = opts.cacRange[c]!;
+      const s0 = (Math.log(hi) - Math.log(lo)) / 3.29;
+      if (brandOn) brands.forEach((_, b) => (lp += logNormal(value(`brandDeviation[${b},${ch}]`) / tauB, 0, 1)));
+      const units = brandOn ? ["mu", ...brands] : ["mu"];
+      const loads = (cell: { brand: string }, unit: string): boolean => unit === "mu" || unit === cell.brand;
+      const guided = data.cells.flatMap((cell, g) => (lay.guidePrecision[g * C + c]! > 0 ? [{ g, cell }] : []));
+      const sigma = guided.map(({ g, cell }) =>
+        guided.map(({ g: h, cell: other }) => (cell.market === other.market ? tauM * tauM : 0) + (g === h ? tauG * tauG + 1 / lay.guidePrecision[g * C + c]! : 0)),
+      );
+      const sigmaInverse = guided.length > 0 ? invertMatrix(sigma) : [];
+      const precision = units.map((unit, i) =>
+        units.map((other, j) => {
+          let sum = i !== j ? 0 : unit === "mu" ? 1 / (s0 * s0) : 1 / (tauB * tauB);
+          guided.forEach((x, a) => guided.forEach((y, b) => {
+            if (loads(x.cell, unit) && loads(y.cell, other)) sum += sigmaInverse[a]![b]!;
+          }));
+          return sum;
+        }),
+      );
+      jac += -0.5 * logDeterminant(precision) - (brandOn ? brands.length * Math.log(tauB) : 0);
+    });
+    // zM = market deviation / τM, built given the brand deviations through δ = v·S + √v·u with
+    // v = 1/(1/τM² + P), P = Σ over the market's guided cells of 1/(τG² + ŝ²): log-Jacobian log √v − log τM
+    channels.forEach((ch, c) => {
+      if (!model.constrainedNames.includes(`tauMarket[${ch}]`)) return;
+      const tau = value(`tauMarket[${ch}]`);
+      const tauG = value(`tauCell[${ch}]`);
+      markets.forEach((market, j) => {
+        lp += logNormal(value(`marketDeviation[${j},${ch}]`) / tau, 0, 1);
+        let P = 0;
+        data.cells.forEach((cell, g) => {
+          const prec = lay.guidePrecision[g * C + c]!;
+          if (cell.market === market && prec > 0) P += 1 / (tauG * tauG + 1 / prec);
         });
+        jac += 0.5 * Math.log(1 / (1 / (tau * tau) + P)) - Math.log(tau);
       });
-    }
+    });
     // zG = cell deviation / τG; the sampler's guided coordinate u maps to
     // zG = (m + √v·u − group)/τG, with log-Jacobian log √v − log τG
     data.cells.forEach((_, g) => {
@@ -198,4 +222,42 @@ export function referenceLogDensity(model: PortfolioDensity, data: PortfolioData
     }
   });
   return lp + jac;
+}
+
+/** Inverse of a small matrix by Gauss–Jordan elimination with partial pivoting. */
+function invertMatrix(a: number[][]): number[][] {
+  const n = a.length;
+  const m = a.map((row, i) => [...row, ...Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))]);
+  for (let col = 0; col < n; col++) {
+    let pivot = col;
+    for (let r = col + 1; r < n; r++) if (Math.abs(m[r]![col]!) > Math.abs(m[pivot]![col]!)) pivot = r;
+    [m[col], m[pivot]] = [m[pivot]!, m[col]!];
+    const p = m[col]![col]!;
+    for (let j = 0; j < 2 * n; j++) m[col]![j] = m[col]![j]! / p;
+    for (let r = 0; r < n; r++) {
+      if (r === col) continue;
+      const f = m[r]![col]!;
+      for (let j = 0; j < 2 * n; j++) m[r]![j] = m[r]![j]! - f * m[col]![j]!;
+    }
+  }
+  return m.map((row) => row.slice(n));
+}
+
+/** log |det a| of a small matrix by Gaussian elimination with partial pivoting. */
+function logDeterminant(a: number[][]): number {
+  const m = a.map((row) => [...row]);
+  const n = m.length;
+  let sum = 0;
+  for (let col = 0; col < n; col++) {
+    let pivot = col;
+    for (let r = col + 1; r < n; r++) if (Math.abs(m[r]![col]!) > Math.abs(m[pivot]![col]!)) pivot = r;
+    [m[col], m[pivot]] = [m[pivot]!, m[col]!];
+    const p = m[col]![col]!;
+    sum += Math.log(Math.abs(p));
+    for (let r = col + 1; r < n; r++) {
+      const f = m[r]![col]! / p;
+      for (let j = col; j < n; j++) m[r]![j] = m[r]![j]! - f * m[col]![j]!;
+    }
+  }
+  return sum;
 }

@@ -1,19 +1,22 @@
-import { cellEffectEstimates } from "./cell-parametrisation";
+import { fitCellEffectGuide } from "./cell-parametrisation";
 import type { PortfolioConstants } from "./portfolio-constants";
 import type { ResolvedPortfolioOptions } from "./portfolio-options";
 
 /**
  * Positions in the unconstrained vector q. Every coordinate is scaled so that its prior
  * is a standard normal (or close to it), which gives the sampler similar scales at the start:
- *   μ_c = m0_c + s0_c·q,  log λ_c = log 2 + 0.75·q,  log k_c = 0.5·q (Hill shape),
- *   τ = exp(q),  α = logistic(q),
- *   β0 = ȳ + s·q,  β1 = s·q,  γ, δ = (s/2)·q,  control coefficient = s·q,  σ = s·exp(q),  ν = exp(q).
- * The brand, market and cell deviations are built in that order, each as
- *   δ = v·S + √v·u,  v = 1/(1/τ² + P),
- * where P and S collect the guide (a least-squares estimate of each cell's log β and its
- * standard error) given the levels built before; without a guide (P = 0) this is exactly
- * the non-centred δ = τ·z of model.md. The map is triangular, its log-Jacobian Σ log(√v/τ)
- * is in the density, so the posterior of the named parameters does not depend on the guide.
+ *   log λ_c = log 2 + 0.75·q,  log k_c = 0.5·q (Hill shape),  τ = exp(q),  α = logistic(q),
+ *   β0 = ȳ + s·q,  β1 = s·q,  γ, δ = (s/2)·q,  control coefficient = s·q,  σ = s·exp(q),  ν = exp(q);
+ *   unpooled: η_c = m0_c + s0_c·q.
+ * In the pooled model μ, the brand, market and cell deviations are built in that order,
+ * each from its exact conditional given the τ's and the levels before it, when each guided
+ * cell's data say log β ~ Normal(m̂, ŝ) (the guide: a least-squares estimate of each cell's
+ * log β and its standard error): μ with the brands jointly as x = Λ⁻¹h + chol(Λ)⁻ᵀ·u
+ * (GuidedChannelLevel: every cell loads on μ, brands in a shared market are coupled), then
+ * each market and each cell as δ = v·S + √v·u, v = 1/(1/τ² + P). Without a guide this is
+ * exactly μ = m0 + s0·u and the non-centred δ = τ·z of model.md. The map is triangular and
+ * its log-Jacobian is in the density, so the posterior of the named parameters does not
+ * depend on the guide.
  * A position of −1 means the block is absent.
  */
 export interface ParameterLayout {
@@ -40,6 +43,17 @@ export interface ParameterLayout {
    */
   readonly guideMean: Float64Array;
   readonly guidePrecision: Float64Array;
+  /**
+   * The least-squares guide follows the sampler's α and λ to first order: at a position,
+   * m̂[g,c′] = guideMean[g,c′] + Σ_c slopeAlpha[(g·C + c′)·C + c]·(logit α_c − guideLogitAlpha_c)
+   *   + slopeLogLambda[(g·C + c′)·C + c]·(log λ_c − guideLogLambda_c).
+   * α and λ come before the deviations in the triangular map, so the Jacobian is unchanged.
+   * All zero (a fixed guide) for a guide given in the options.
+   */
+  readonly guideLogitAlpha: Float64Array;
+  readonly guideLogLambda: Float64Array;
+  readonly guideSlopeAlpha: Float64Array;
+  readonly guideSlopeLogLambda: Float64Array;
   /** Start of the per-cell blocks: [β0, β1, γ_1..J, δ_1..J, log σ, controls_1..K]. */
   readonly cells: number;
   readonly cellStride: number;
@@ -78,12 +92,25 @@ export function buildParameterLayout(
   const zCell = take(G * C, pooled);
   const guideMean = new Float64Array(G * C);
   const guidePrecision = new Float64Array(G * C);
+  const guideLogitAlpha = new Float64Array(C);
+  const guideLogLambda = new Float64Array(C);
+  const guideSlopeAlpha = new Float64Array(G * C * C);
+  const guideSlopeLogLambda = new Float64Array(G * C * C);
   if (pooled) {
     const guide = options.cellEffectGuide;
     if (guide === "least-squares") {
-      const estimate = cellEffectEstimates(constants);
+      const estimate = fitCellEffectGuide(constants);
       guideMean.set(estimate.mean);
       for (let i = 0; i < G * C; i++) guidePrecision[i] = 1 / (estimate.sd[i]! * estimate.sd[i]!);
+      for (let c = 0; c < C; c++) {
+        guideLogitAlpha[c] = Math.log(estimate.alpha[c]! / (1 - estimate.alpha[c]!));
+        guideLogLambda[c] = Math.log(estimate.lambda[c]!);
+      }
+      // the slopes are those of the exponential form; the Hill form keeps a fixed guide
+      if (options.saturation === "exponential") {
+        guideSlopeAlpha.set(estimate.meanSlopeAlpha);
+        guideSlopeLogLambda.set(estimate.meanSlopeLambda);
+      }
     } else if (guide !== "none") {
       if (guide.mean.length !== G * C) throw new RangeError(`cellEffectGuide needs ${G * C} values (cells × channels), got ${guide.mean.length}`);
       for (let i = 0; i < G * C; i++) {
@@ -95,5 +122,5 @@ export function buildParameterLayout(
   const cellStride = 3 + 2 * constants.seasonalityOrder + constants.controlCount;
   const cells = take(G * cellStride);
   const nu = take(1, options.likelihood === "student-t");
-  return { structure, mu, tauBrand, tauMarket, tauCell, alpha, lambda, hillShape, zBrand, zMarket, zCell, guideMean, guidePrecision, cells, cellStride, nu, dimension: next };
+  return { structure, mu, tauBrand, tauMarket, tauCell, alpha, lambda, hillShape, zBrand, zMarket, zCell, guideMean, guidePrecision, guideLogitAlpha, guideLogLambda, guideSlopeAlpha, guideSlopeLogLambda, cells, cellStride, nu, dimension: next };
 }

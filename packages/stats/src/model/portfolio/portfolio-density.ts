@@ -6,6 +6,7 @@ import { betaPriorOnLogit, gammaPriorOnLog, halfNormalPriorOnLog, logistic } fro
 import type { PortfolioConstants } from "./portfolio-constants";
 import type { ParameterLayout } from "./parameter-layout";
 import type { ResolvedPortfolioOptions } from "./portfolio-options";
+import { GuidedChannelLevel } from "./guided-channel-level";
 import { portfolioParameterNames } from "./portfolio-names";
 
 const LOG_TWO = Math.LN2;
@@ -48,11 +49,18 @@ export class PortfolioDensity implements DensityModel {
   /** Per cell × channel: v and m of the guided cell level (see ParameterLayout.guideMean). */
   private readonly cellV: Float64Array;
   private readonly cellM: Float64Array;
+  /** Whether the guide's means move with α and λ; the means at the current position and their gradient. */
+  private readonly guideTracks: boolean;
+  private readonly guideMeanNow: Float64Array;
+  private readonly guideMeanGrad: Float64Array;
+  private readonly guideShiftAlpha: Float64Array;
+  private readonly guideShiftLambda: Float64Array;
   /** Brand and market deviations δ with their guide terms v, S, P and gradient buffers (per level unit × channel). */
   private readonly deltaBrand: Float64Array;
-  private readonly brandV: Float64Array;
-  private readonly brandS: Float64Array;
-  private readonly brandP: Float64Array;
+  /** μ and the brand deviations, built jointly (pooled structure only). */
+  private readonly channelLevel: GuidedChannelLevel;
+  /** [∂/∂log τB, ∂/∂log τM, ∂/∂log τG] of the channel level, per channel. */
+  private readonly channelLevelGradient = new Float64Array(3);
   private readonly gradDeltaBrand: Float64Array;
   private readonly deltaMarket: Float64Array;
   private readonly marketV: Float64Array;
@@ -109,9 +117,7 @@ export class PortfolioDensity implements DensityModel {
     const B = constants.brands.length;
     const M = constants.markets.length;
     this.deltaBrand = new Float64Array(B * C);
-    this.brandV = new Float64Array(B * C);
-    this.brandS = new Float64Array(B * C);
-    this.brandP = new Float64Array(B * C);
+    this.channelLevel = new GuidedChannelLevel(B, M, C, constants.cellBrand, constants.cellMarket, layout.zBrand >= 0, layout.zMarket >= 0);
     this.gradDeltaBrand = new Float64Array(B * C);
     this.deltaMarket = new Float64Array(M * C);
     this.marketV = new Float64Array(M * C);
@@ -119,6 +125,11 @@ export class PortfolioDensity implements DensityModel {
     this.marketP = new Float64Array(M * C);
     this.gradDeltaMarket = new Float64Array(M * C);
     this.cellM = new Float64Array(G * C);
+    this.guideTracks = layout.guideSlopeAlpha.some((v) => v !== 0) || layout.guideSlopeLogLambda.some((v) => v !== 0);
+    this.guideMeanNow = Float64Array.from(layout.guideMean);
+    this.guideMeanGrad = new Float64Array(G * C);
+    this.guideShiftAlpha = new Float64Array(C);
+    this.guideShiftLambda = new Float64Array(C);
     this.adstock = new Float64Array(C * N);
     this.adstockDerivative = new Float64Array(C * N);
     this.response = new Float64Array(C * N);
@@ -143,11 +154,15 @@ export class PortfolioDensity implements DensityModel {
     const G = k.cellCount;
     const scratch = grad ?? this.priorScratch;
     let lp = 0;
+    const pooled = lay.structure === "pooled";
     for (let c = 0; c < C; c++) {
-      const uMu = q[lay.mu + c]!;
-      this.mu[c] = k.muPriorMean[c]! + k.muPriorSd[c]! * uMu;
-      lp -= 0.5 * uMu * uMu;
-      if (grad) grad[lay.mu + c] = -uMu;
+      if (!pooled) {
+        // η = μ block of the single cell, non-centred on its prior; pooled: built with the brands below
+        const uMu = q[lay.mu + c]!;
+        this.mu[c] = k.muPriorMean[c]! + k.muPriorSd[c]! * uMu;
+        lp -= 0.5 * uMu * uMu;
+        if (grad) grad[lay.mu + c] = -uMu;
+      }
       if (lay.tauBrand >= 0) {
         this.tauBrand[c] = Math.exp(q[lay.tauBrand + c]!);
         lp += halfNormalPriorOnLog(q[lay.tauBrand + c]!, TAU_PRIOR_SCALE, scratch, grad ? lay.tauBrand + c : 0);
@@ -174,40 +189,22 @@ export class PortfolioDensity implements DensityModel {
         if (grad) grad[lay.hillShape + c] = -uShape;
       }
     }
-    const B = k.brands.length;
     const M = k.markets.length;
-    const guideMean = lay.guideMean;
+    const guideMean = this.trackGuide(q);
     const guidePrecision = lay.guidePrecision;
-    // Levels are built in order brand → market → cell; each deviation is guided by the
-    // cells' data estimates given the levels before it (see ParameterLayout.guideMean),
-    // so the map is triangular and its log-Jacobian is Σ log(√v/τ).
+    // Levels are built in order (μ with the brands) → market → cell; each is guided by the
+    // cells' data estimates given the levels before it (see ParameterLayout), so the map
+    // is triangular: its log-Jacobian is −log det chol(Λ) for μ and the brands and Σ log √v below.
     for (let c = 0; c < C; c++) {
+      if (pooled) {
+        lp += this.channelLevel.build(
+          c, k.muPriorMean[c]!, k.muPriorSd[c]!, this.tauBrand[c]!, this.tauMarket[c]!, this.tauCell[c]!,
+          guideMean, guidePrecision, q, lay.mu, lay.zBrand, this.mu, this.deltaBrand,
+        );
+      }
       const mu = this.mu[c]!;
       const tauG2 = this.tauCell[c]! * this.tauCell[c]!;
       const tauM2 = lay.zMarket >= 0 ? this.tauMarket[c]! * this.tauMarket[c]! : 0;
-      if (lay.zBrand >= 0) {
-        const aB = 1 / (this.tauBrand[c]! * this.tauBrand[c]!);
-        for (let b = 0; b < B; b++) {
-          let P = 0;
-          let S = 0;
-          for (let g = 0; g < G; g++) {
-            const gc = g * C + c;
-            const prec = guidePrecision[gc]!;
-            if (k.cellBrand[g] !== b || prec === 0) continue;
-            const w = 1 / (tauG2 + 1 / prec + tauM2);
-            P += w;
-            S += w * (guideMean[gc]! - mu);
-          }
-          const i = b * C + c;
-          const v = 1 / (aB + P);
-          const delta = v * S + Math.sqrt(v) * q[lay.zBrand + i]!;
-          this.deltaBrand[i] = delta;
-          this.brandV[i] = v;
-          this.brandS[i] = S;
-          this.brandP[i] = P;
-          lp += -0.5 * aB * delta * delta + 0.5 * Math.log(aB * v);
-        }
-      }
       if (lay.zMarket >= 0) {
         const aM = 1 / tauM2;
         for (let m = 0; m < M; m++) {
@@ -526,10 +523,11 @@ export class PortfolioDensity implements DensityModel {
     if (k.liftTests.length > 0) lp += this.liftTestTerm(true);
 
     // chain rule back to the unconstrained coordinates: cells, then markets, then brands
-    const B = k.brands.length;
     const M = k.markets.length;
-    const guideMean = lay.guideMean;
+    const guideMean = this.guideMeanNow;
     const guidePrecision = lay.guidePrecision;
+    const guideMeanGrad = this.guideMeanGrad;
+    guideMeanGrad.fill(0);
     this.gradDeltaBrand.fill(0);
     this.gradDeltaMarket.fill(0);
     for (let c = 0; c < C; c++) {
@@ -554,6 +552,7 @@ export class PortfolioDensity implements DensityModel {
           const d = Math.log(this.beta[gc]!) - group;
           const total = gb - a * d; // d/d log β with the group and τG held
           grad[zi] = grad[zi]! + total * sdv;
+          guideMeanGrad[gc] = guideMeanGrad[gc]! + total * v * guidePrecision[gc]!;
           const dLogBetaDa = v * (group - this.cellM[gc]!) - 0.5 * v * sdv * u;
           const dA = total * dLogBetaDa - 0.5 * d * d + 0.5 / a - 0.5 * v;
           gTauG += -2 * a * dA;
@@ -584,6 +583,7 @@ export class PortfolioDensity implements DensityModel {
             const prec = guidePrecision[gc]!;
             if (k.cellMarket[g] !== m || prec === 0) continue;
             const w = 1 / (tauG2 + 1 / prec);
+            guideMeanGrad[gc] = guideMeanGrad[gc]! + dS * w;
             let r = guideMean[gc]! - this.mu[c]!;
             if (lay.zBrand >= 0) {
               const bi = k.cellBrand[g]! * C + c;
@@ -594,33 +594,16 @@ export class PortfolioDensity implements DensityModel {
           }
         }
       }
-      if (lay.zBrand >= 0) {
-        const aB = 1 / (this.tauBrand[c]! * this.tauBrand[c]!);
-        for (let b = 0; b < B; b++) {
-          const i = b * C + c;
-          const v = this.brandV[i]!;
-          const sdv = Math.sqrt(v);
-          const delta = this.deltaBrand[i]!;
-          const u = q[lay.zBrand + i]!;
-          const total = this.gradDeltaBrand[i]! - aB * delta;
-          grad[lay.zBrand + i] = grad[lay.zBrand + i]! + total * sdv;
-          const dS = total * v;
-          const dV = total * (this.brandS[i]! + u / (2 * sdv)) + 0.5 / v;
-          gTauB += -2 * aB * (-v * v * dV - 0.5 * delta * delta + 0.5 / aB);
-          const dP = -v * v * dV;
-          gMu -= dS * this.brandP[i]!;
-          for (let g = 0; g < G; g++) {
-            const gc = g * C + c;
-            const prec = guidePrecision[gc]!;
-            if (k.cellBrand[g] !== b || prec === 0) continue;
-            const w = 1 / (tauG2 + 1 / prec + tauM2);
-            const dw = dP + dS * (guideMean[gc]! - this.mu[c]!);
-            gTauG += dw * (-2 * tauG2 * w * w);
-            if (lay.zMarket >= 0) gTauM += dw * (-2 * tauM2 * w * w);
-          }
-        }
-      }
-      grad[lay.mu + c] = grad[lay.mu + c]! + gMu * k.muPriorSd[c]!;
+      if (lay.structure === "pooled") {
+        const out = this.channelLevelGradient;
+        this.channelLevel.backprop(
+          c, k.muPriorMean[c]!, k.muPriorSd[c]!, this.tauBrand[c]!, this.tauMarket[c]!, this.tauCell[c]!,
+          guideMean, guidePrecision, gMu, this.gradDeltaBrand, lay.mu, lay.zBrand, grad, out, guideMeanGrad,
+        );
+        gTauB += out[0]!;
+        gTauM += out[1]!;
+        gTauG += out[2]!;
+      } else grad[lay.mu + c] = grad[lay.mu + c]! + gMu * k.muPriorSd[c]!;
       if (lay.tauBrand >= 0) grad[lay.tauBrand + c] = grad[lay.tauBrand + c]! + gTauB;
       if (lay.tauMarket >= 0) grad[lay.tauMarket + c] = grad[lay.tauMarket + c]! + gTauM;
       if (lay.tauCell >= 0) grad[lay.tauCell + c] = grad[lay.tauCell + c]! + gTauG;
@@ -629,7 +612,41 @@ export class PortfolioDensity implements DensityModel {
       grad[lay.lambda + c] = grad[lay.lambda + c]! + gLogLambda * LAMBDA_PRIOR_SD;
       if (lay.hillShape >= 0) grad[lay.hillShape + c] = grad[lay.hillShape + c]! + this.gradLogShape[c]! * HILL_SHAPE_PRIOR_SD;
     }
+    if (this.guideTracks) {
+      // the guide's means follow logit α and log λ = log 2 + 0.75·u (see ParameterLayout)
+      const sA = lay.guideSlopeAlpha;
+      const sL = lay.guideSlopeLogLambda;
+      for (let gc = 0; gc < G * C; gc++) {
+        const gm = guideMeanGrad[gc]!;
+        if (gm === 0) continue;
+        for (let c = 0; c < C; c++) {
+          grad[lay.alpha + c] = grad[lay.alpha + c]! + gm * sA[gc * C + c]!;
+          grad[lay.lambda + c] = grad[lay.lambda + c]! + gm * sL[gc * C + c]! * LAMBDA_PRIOR_SD;
+        }
+      }
+    }
     return lp;
+  }
+
+  /** The guide's means at q: fixed, or moved with the sampler's α and λ (see ParameterLayout). */
+  private trackGuide(q: Float64Array): Float64Array {
+    const lay = this.layout;
+    if (!this.guideTracks) return lay.guideMean;
+    const C = this.constants.channelCount;
+    const G = this.constants.cellCount;
+    const dAlpha = this.guideShiftAlpha;
+    const dLambda = this.guideShiftLambda;
+    for (let c = 0; c < C; c++) {
+      dAlpha[c] = q[lay.alpha + c]! - lay.guideLogitAlpha[c]!;
+      dLambda[c] = LOG_TWO + LAMBDA_PRIOR_SD * q[lay.lambda + c]! - lay.guideLogLambda[c]!;
+    }
+    const out = this.guideMeanNow;
+    for (let gc = 0; gc < G * C; gc++) {
+      let m = lay.guideMean[gc]!;
+      if (lay.guidePrecision[gc]! > 0) for (let c = 0; c < C; c++) m += lay.guideSlopeAlpha[gc * C + c]! * dAlpha[c]! + lay.guideSlopeLogLambda[gc * C + c]! * dLambda[c]!;
+      out[gc] = m;
+    }
+    return out;
   }
 
   /**

@@ -65,7 +65,8 @@ export interface PortfolioModelOptions {
   /**
    * Sampler geometry only (the posterior is the same either way): how the cell level
    * log β[g,c] ~ Normal(group, τG) is moved. "least-squares" (default) guides each cell
-   * effect by a per-cell least-squares estimate of log β and its standard error;
+   * effect by a per-cell least-squares estimate of log β and its standard error, at the
+   * adstock and saturation (α, λ per channel) that fit the portfolio best;
    * "none" samples it non-centred, exactly as written in model.md; or give the guide
    * (mean and sd of log β per cell × channel, row-major; sd Infinity = non-centred).
    */
