@@ -308,11 +308,17 @@ try {
 
   const overall = underFit.overall as { latencyMs: { p95: number | null }; errors: number; timeouts: number; non2xx: number };
   const p95 = overall.latencyMs.p95;
+  // Quiet: the 1-minute load average under half the cores before this benchmark started anything.
   const quiet = loadAtStart[0]! < 0.5 * availableParallelism();
+  const phaseLoads = [underFit, ...(baseline ? [baseline] : [])].flatMap((phase) => [phase.loadAverage.before, phase.loadAverage.after]);
   const notes = [
     "The load generator (autocannon, in this process) runs on the same machine as the server and the fit, and shares its cores.",
     "Closed loop: each client sends its next request when the previous one is answered, so latency ≈ connections ÷ throughput.",
-    ...(quiet ? [] : [`The machine was busy with other work when the benchmark started (1-minute load average ${round(loadAtStart[0]!, 2)} on ${availableParallelism()} cores); the numbers are worse than on a quiet machine.`]),
+    ...(quiet
+      ? []
+      : [
+          `The machine was busy with other work: 1-minute load average ${round(loadAtStart[0]!, 2)} on ${availableParallelism()} cores before the benchmark started, ${round(Math.min(...phaseLoads), 2)} to ${round(Math.max(...phaseLoads), 2)} during the load (of which the fit's threads, the server and the clients make about 3 to 4). The server's main thread got only the share of a core shown in serverCpu.mainThreadCores, so the latencies are worse than on a quiet machine.`,
+        ]),
   ];
   const report = {
     what: `${connections} concurrent clients for ${seconds} s on the dashboards' read routes (GET; the five demo people, one of every role, each reading what their role and markets allow) of the real server with the demo workspace, while a fit of the demo data with the default settings runs`,
@@ -323,9 +329,9 @@ try {
       memoryGb: round(totalmem() / 2 ** 30, 1),
       node: process.version,
       loadAverageAtStart: loadAtStart.map((x) => round(x, 2)),
-      quietAtStart: quiet,
+      quiet,
     },
-    settings: { connections, seconds, requestTimeoutSeconds: REQUEST_TIMEOUT_S, serverLogLevel: args["log-level"], fitChainThreads: fitChainThreads ? Number(fitChainThreads) : "server default (one per core)" },
+    settings: { connections, seconds, baselineWithoutFit: args.baseline, requestTimeoutSeconds: REQUEST_TIMEOUT_S, serverLogLevel: args["log-level"], fitChainThreads: fitChainThreads ? Number(fitChainThreads) : "server default (one per core)" },
     server: {
       fit: { runId: run.id, settings: { chains: settings.settings.chains, warmup: settings.settings.warmup, draws: settings.settings.draws, unpooled: settings.settings.unpooled }, stillRunningAtEnd: fitStillRunning },
       firstFitPublishedAfterSeconds: round(firstFitSeconds, 1),
