@@ -59,8 +59,21 @@ describe("portfolio settings", () => {
       expect(await brands.getByLabel(brand.name, { exact: true }).inputValue()).toBe(String(brand.customerValue));
       await saveScreenshot(page, "portfolio-settings", "01-as-found");
 
-      // Keyboard only: type the value and press Enter to save.
+      // A refused value is named beside its field and nothing is sent; choosing another currency shows what that means, and Undo leaves it unsaved.
       const input = brands.getByLabel(brand.name, { exact: true });
+      await input.fill("-5");
+      await input.press("Enter");
+      await brands.getByText(/The customer value must be above 0/).waitFor();
+      expect(await input.getAttribute("aria-invalid")).toBe("true");
+      const company = page.getByRole("form", { name: "Company" });
+      await company.getByLabel("Reporting currency").selectOption("SEK");
+      await company.getByText(`Every figure now in ${original.currency} will read as SEK.`, { exact: false }).waitFor();
+      await saveScreenshot(page, "portfolio-settings", "02-refused-and-currency-note");
+      await company.getByRole("button", { name: "Undo changes" }).click();
+      expect(await company.getByLabel("Reporting currency").inputValue()).toBe(original.currency);
+      expect((await fetchFromPage<PortfolioSettings>(page, "/api/portfolio-settings")).brands).toEqual(original.brands);
+
+      // Keyboard only: type the value and press Enter to save.
       await input.fill(String(newValue));
       await input.press("Enter");
       await brands.getByText(`Saved the customer value of ${brand.name}.`, { exact: false }).waitFor();
@@ -69,7 +82,7 @@ describe("portfolio settings", () => {
       await channels.getByLabel(`Display name of ${channel.code}`).fill(newName);
       await channels.getByRole("button", { name: "Save channels" }).click();
       await channels.getByText(/Saved. Every screen now shows these names/).waitFor();
-      await saveScreenshot(page, "portfolio-settings", "02-changed");
+      await saveScreenshot(page, "portfolio-settings", "03-changed");
 
       // The Portfolio map: the brand's new value, and the cell's chance of profit computed with it.
       await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Portfolio map" }).click();
@@ -81,7 +94,7 @@ describe("portfolio settings", () => {
       expect(changed.customerValue).toBe(newValue);
       expect(changed.probabilityProfitable).not.toBe(cell.probabilityProfitable);
       expect(await page.locator(`td[data-cell="${cell.brand}|${cell.market}"] [data-value="chance"]`).textContent()).toBe(formatChance(changed.probabilityProfitable));
-      await saveScreenshot(page, "portfolio-settings", "03-portfolio-map");
+      await saveScreenshot(page, "portfolio-settings", "04-portfolio-map");
 
       // The Channel sheet names the channel by its new name, in its picker and its header.
       await page.goto(`${server.baseUrl}/channel-sheet?cell=${cell.cellId}&channel=${channel.code}`);
@@ -91,7 +104,7 @@ describe("portfolio settings", () => {
       expect(sheet.profit.customerValue).toBe(newValue);
       await page.getByText(`${cell.brand} in ${cell.market}, ${newName}`).waitFor();
       expect(await page.getByRole("combobox", { name: "Channel" }).locator("option:checked").textContent()).toBe(newName);
-      await saveScreenshot(page, "portfolio-settings", "04-channel-sheet");
+      await saveScreenshot(page, "portfolio-settings", "05-channel-sheet");
 
       // Who changed what, old → new, in the audit log.
       const log = await fetchFromPage<AuditLogPage>(page, "/api/audit-log?action=customer_value_changed&page=1&pageSize=5");
