@@ -90,7 +90,7 @@ describe("CSV exports and formula injection", () => {
       }
     }
     // The hostile texts did reach the exports (neutralised), so the check above had something to catch.
-    // (Exports name channels by code and plans only in the file name, so those two are not in any cell.)
-    expect([...seen].sort()).toEqual(["brand", "flag", "market", "reason"]);
+    // (Dashboard exports name channels by code, a plan's allocation by display name; plans appear only in the file name.)
+    expect([...seen].sort()).toEqual(["brand", "channel", "flag", "market", "reason"]);
   });
 });
