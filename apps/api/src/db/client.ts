@@ -6,6 +6,7 @@ import { amcheck } from "@electric-sql/pglite/contrib/amcheck";
 import { NodeFS } from "@electric-sql/pglite/nodefs";
 import { drizzle, type PgliteDatabase } from "drizzle-orm/pglite";
 import { migrate } from "drizzle-orm/pglite/migrator";
+import { registerDataGeneration, trackWrites } from "./data-generation";
 import * as schema from "./schema";
 
 export type Database = PgliteDatabase<typeof schema> & { $client: PGlite };
@@ -80,8 +81,11 @@ export async function openClient(options: Pick<DatabaseOptions, "dataDir" | "sna
 
 export async function createDatabase(options: DatabaseOptions = {}): Promise<Database> {
   const client = await openClient(options);
+  // Every write moves the data generation, so caches can check for changes without a query (data-generation.ts).
+  const generation = trackWrites(client);
   const onQuery = options.onQuery;
   const db = drizzle({ client, schema, logger: onQuery ? { logQuery: (query) => onQuery(query) } : false });
+  registerDataGeneration(db, generation);
   await migrate(db, { migrationsFolder });
   return db;
 }
