@@ -3,9 +3,11 @@ import type { Request, RequestHandler, Response } from "express";
 import { asc, eq } from "drizzle-orm";
 import type { CurrentUser } from "@tributary/contracts";
 import type { Database, Queryable } from "../db/client";
+import { DataGeneration, dataGenerationOf } from "../db/data-generation";
 import { userMarkets } from "../db/schema";
 import { clearCsrfCookie, csrfCookieName, csrfTokenFor, readCookie, setCsrfCookie } from "./csrf";
-import type { Auth } from "./lucia";
+import { sessionLifetimeMs, type Auth } from "./lucia";
+import { SessionCache } from "./session-cache";
 
 export interface RequestAuth {
   readonly user: CurrentUser;
@@ -55,27 +57,56 @@ export function clearSessionCookie(auth: Auth, req: Request, res: Response): voi
   clearCsrfCookie(req, res);
 }
 
+/**
+ * Attaches the signed-in user. A session checked at the current data generation is taken
+ * from a cache (session-cache.ts) without a database round trip; its expiry and renewal
+ * time are still compared with the clock on every request.
+ */
 export function authenticate(auth: Auth, db: Database): RequestHandler {
+  const generation = dataGenerationOf(db);
+  const lifetimeMs = sessionLifetimeMs(auth);
+  const cache = generation && lifetimeMs !== undefined ? new SessionCache(generation) : null;
   return async (req, res, next) => {
     req.auth = null;
     const sessionId = auth.readSessionCookie(req.headers.cookie ?? "");
     if (!sessionId) return next();
-    const { session, user } = await auth.validateSession(sessionId);
-    if (!session) {
-      clearSessionCookie(auth, req, res);
-      return next();
+    let known = cache?.get(sessionId, Date.now()) ?? null;
+    let fresh = false;
+    if (!known) {
+      const checked = await (generation ?? new DataGeneration()).readAt(async () => {
+        const { session, user } = await auth.validateSession(sessionId);
+        if (!session) return null;
+        if (user.disabled) return { session, user, current: null };
+        return { session, user, current: await currentUserOf(db, user) };
+      });
+      const result = checked.value;
+      if (!result) {
+        clearSessionCookie(auth, req, res);
+        return next();
+      }
+      if (!result.current) {
+        await auth.invalidateUserSessions(result.user.id);
+        clearSessionCookie(auth, req, res);
+        return next();
+      }
+      const expiresAt = result.session.expiresAt.getTime();
+      known = {
+        user: result.current,
+        expiresAt,
+        renewFrom: lifetimeMs === undefined ? expiresAt : expiresAt - lifetimeMs / 2,
+        csrfToken: csrfTokenFor(sessionId),
+      };
+      fresh = result.session.fresh;
+      cache?.set(sessionId, checked.generation, known);
     }
-    if (user.disabled) {
-      await auth.invalidateUserSessions(user.id);
-      clearSessionCookie(auth, req, res);
-      return next();
-    }
-    if (session.fresh) setSessionCookie(auth, req, res, session.id);
+    if (fresh) setSessionCookie(auth, req, res, sessionId);
     // A browser that lost its token cookie (or holds an older one) gets it back on its next request.
-    else if (readCookie(req.headers.cookie, csrfCookieName) !== csrfTokenFor(session.id)) {
-      setCsrfCookie(req, res, session.id, Math.max(0, session.expiresAt.getTime() - Date.now()));
+    else if (readCookie(req.headers.cookie, csrfCookieName) !== known.csrfToken) {
+      setCsrfCookie(req, res, sessionId, Math.max(0, known.expiresAt - Date.now()));
     }
-    req.auth = { user: await currentUserOf(db, user), sessionId: session.id };
+    // A copy: handlers get their own user object, the cached one never changes.
+    const user = known.user;
+    req.auth = { user: { ...user, marketIds: [...user.marketIds] }, sessionId };
     // Every later log line of this request names who made it.
     if (req.log) req.log = req.log.child({ userId: user.id });
     next();

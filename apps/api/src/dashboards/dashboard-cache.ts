@@ -2,13 +2,15 @@
 // its estimates are computed once (on first request, or ahead when it is published or
 // the server starts) and kept for the few most recently used runs; concurrent requests
 // share one computation. Names, customer values, flags and plans are read in one query
-// and reused until the database changes: Postgres's transaction snapshot (xmin:xmax:
-// in-progress ids) moves with every transaction that writes, and costs next to nothing
-// to read, so an unchanged database is not read again.
+// and reused until the database changes: the data generation (db/data-generation.ts)
+// moves with every write of this process, which owns the data directory, so the check
+// costs no query. (On a handle without one, Postgres's transaction snapshot — xmin:xmax:
+// in-progress ids, which moves with every transaction that writes — is read instead.)
 import { sql } from "drizzle-orm";
 import type { Logger } from "pino";
 import type { Run } from "@tributary/contracts";
 import type { Queryable } from "../db/client";
+import { dataGenerationOf, type DataGeneration } from "../db/data-generation";
 import { runRecord } from "../runs/run-queries";
 import { computeChannelSheetData, type ChannelSheetData } from "./channel-sheet-data";
 import { loadDashboardSnapshot, type DashboardSnapshot } from "./dashboard-context";
@@ -53,7 +55,11 @@ export class DashboardCache {
     this.estimatesByRun = new PromiseCache(options.runs ?? 4);
     this.sheets = new PromiseCache(options.sheets ?? 300);
     this.log = options.log;
+    this.generation = dataGenerationOf(db);
   }
+
+  /** Moves with every write of this process (db/data-generation.ts); undefined on a handle that is not a database of createDatabase. */
+  private readonly generation: DataGeneration | undefined;
 
   private readonly log: Logger | undefined;
 
@@ -61,8 +67,7 @@ export class DashboardCache {
 
   /** Published runs, names, values, flags and plans as of now (reread only after a write). */
   async snapshot(): Promise<DashboardSnapshot> {
-    const result = await this.db.execute(sql`select pg_current_snapshot()::text as key`);
-    const key = String((result as unknown as { rows: { key: string }[] }).rows[0]!.key);
+    const key = await this.changeKey();
     if (this.lastSnapshot?.key === key) return this.lastSnapshot.value;
     const value = loadDashboardSnapshot(this.db);
     const entry = { key, value };
@@ -71,6 +76,16 @@ export class DashboardCache {
       if (this.lastSnapshot === entry) this.lastSnapshot = null;
     });
     return value;
+  }
+
+  /**
+   * Equal keys mean the database has not changed in between: the data generation when
+   * the cache sits on the database itself (no query), else Postgres's snapshot.
+   */
+  private async changeKey(): Promise<string> {
+    if (this.generation) return `generation ${this.generation.current}`;
+    const result = await this.db.execute(sql`select pg_current_snapshot()::text as key`);
+    return `snapshot ${String((result as unknown as { rows: { key: string }[] }).rows[0]!.key)}`;
   }
 
   estimates(runId: string): Promise<RunEstimates> {
