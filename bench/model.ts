@@ -1,9 +1,13 @@
 // Portfolio model benchmark: the benchmark portfolio (10 cells × 4 channels × up to 156
 // weeks, two cells of 26 weeks), 4 chains × (1000 warm-up + 1000 draws) of Tributary's
 // NUTS on worker threads; with R and rstan (bench/setup-stan.sh) also the same density in
-// Stan (bench/model.stan) on the same data, side by side. Prints JSON; `--out FILE` also
-// writes it; `--no-stan` skips Stan; `--seed N`; `--density-only` only compares the log
-// densities of the two implementations at a few points.
+// Stan (bench/model.stan) on the same data, side by side. Also the demo portfolio and the
+// example portfolio of `pnpm fit:example-data` (Tributary only). Prints JSON; `--out FILE`
+// also writes it; `--no-stan` skips Stan; `--stan-from FILE` takes the Stan run from an
+// earlier result file (same data and seed; Stan's side does not depend on our code) instead
+// of running it again; `--seed N`; `--density-only` only compares the log densities of the
+// two implementations at a few points.
+import { readFileSync } from "node:fs";
 import { execFileSync } from "node:child_process";
 import { mkdtempSync, writeFileSync } from "node:fs";
 import { availableParallelism, cpus, tmpdir } from "node:os";
@@ -20,6 +24,7 @@ import { sampleChainsInWorkers } from "../packages/stats/src/parallel/node-worke
 import { createRandomSource } from "../packages/stats/src/rng/create-random-source";
 import type { ChainResult, SamplerSettings } from "../packages/stats/src/sampler/sampler-settings";
 import { benchmarkPortfolio } from "./model-portfolio";
+import { demoPortfolio, examplePortfolio, portfolioDescriptions } from "./model-portfolios";
 
 const argv = process.argv.slice(2);
 const option = (name: string): string | undefined => {
@@ -29,6 +34,7 @@ const option = (name: string): string | undefined => {
 const withStan = !argv.includes("--no-stan");
 const outFile = option("--out");
 const seed = Number(option("--seed") ?? 2024);
+const stanFrom = option("--stan-from");
 const options: PortfolioModelOptions = {};
 /** The named parameters of the specification; min ESS and max R-hat are taken over these on both sides. */
 const NAMED = /^(mu|tauBrand|tauMarket|tauCell|alpha|lambda|cac0|beta0|beta1|sigma|gamma|delta)\[/;
@@ -106,6 +112,29 @@ async function runTributary() {
     essBulkPerSecond: minEss.essBulk / wallSeconds,
     cac0,
     truthCoverage90: cac0.filter((c) => c.covered).length / cac0.length,
+  };
+}
+
+/** The sampler's diagnostics on another portfolio, same settings (Tributary only). */
+async function runOther(portfolio: PortfolioData) {
+  const settings: SamplerSettings = { chains: 4, warmup: 1000, draws: 1000, seed, maxTreeDepth: 10, targetAcceptance: 0.8 };
+  const started = performance.now();
+  const chains = await sampleChainsInWorkers({ kind: portfolioPooledKind, data: { portfolio, options } }, settings);
+  const wallSeconds = (performance.now() - started) / 1000;
+  const summary = summariseRun(chains);
+  const named = summary.parameters.filter((p) => NAMED.test(p.name));
+  const minEss = named.reduce((m, p) => (p.essBulk < m.essBulk ? p : m));
+  return {
+    wallSeconds,
+    gradientEvaluations: summary.diagnostics.gradientEvaluations,
+    maxRhat: Math.max(...named.map((p) => p.rhat)),
+    minEssBulk: minEss.essBulk,
+    minEssBulkParameter: minEss.name,
+    divergences: summary.diagnostics.divergences,
+    treeDepthHits: summary.diagnostics.treeDepthHits,
+    stepSizes: chains.map((c) => c.stepSize),
+    trustworthy: summary.diagnostics.trustworthy,
+    reasons: summary.diagnostics.reasons,
   };
 }
 
@@ -211,27 +240,46 @@ if (argv.includes("--density-only")) {
   process.exit(0);
 }
 
+interface StanRun {
+  wallSeconds: number;
+  minEssBulk: number;
+  cac0: { name: string; median: number; mcseMedian: number }[];
+  [key: string]: unknown;
+}
+
+/** The Stan run of an earlier result file, if it was made on the same data with the same settings. */
+function stanFromFile(file: string): StanRun {
+  const earlier = JSON.parse(readFileSync(file, "utf8")) as { portfolio?: string; settings?: { seed?: number }; stan?: unknown };
+  const s = earlier.stan;
+  if (typeof s !== "object" || s === null || !("cac0" in s)) throw new Error(`${file} has no Stan run to reuse`);
+  const run = s as StanRun;
+  if (run["seed"] !== seed || run["chains"] !== 4 || run["warmup"] !== 1000 || run["draws"] !== 1000) throw new Error(`${file}: its Stan run used other settings (seed ${String(run["seed"])}), run Stan again`);
+  return run;
+}
+
 const msPerGradient = gradientTime();
 const tributary = await runTributary();
-const stanMissing = stanAvailable();
+const others = { demo: await runOther(demoPortfolio()), example: await runOther(examplePortfolio(1)) };
+const stanMissing = stanFrom === undefined ? stanAvailable() : null;
 let stan: null | Record<string, unknown> = null;
 let comparison: null | Record<string, unknown> = null;
-let density: null | ReturnType<typeof densityCheck> = null;
+let density: null | string | ReturnType<typeof densityCheck> = null;
 if (stanMissing === null) {
-  const dir = mkdtempSync(join(tmpdir(), "tributary-model-"));
-  const dataFile = join(dir, "data.json");
-  writeFileSync(dataFile, JSON.stringify(stanData(data)));
-  density = densityCheck(dataFile, dir);
-  const script = fileURLToPath(new URL("./model-stan.R", import.meta.url));
-  const cores = String(Math.min(4, availableParallelism()));
-  const text = execFileSync("Rscript", [script, dataFile, "4", "1000", "1000", String(seed), cores], { encoding: "utf8", env: stanEnv(), maxBuffer: 1 << 26 });
-  const s = JSON.parse(text.slice(text.indexOf("{"))) as {
-    wallSeconds: number;
-    minEssBulk: number;
-    cac0: { name: string; median: number; mcseMedian: number }[];
-    [key: string]: unknown;
-  };
-  stan = { ...s, essBulkPerSecond: s.minEssBulk / s.wallSeconds };
+  let s: StanRun;
+  if (stanFrom !== undefined) {
+    s = stanFromFile(stanFrom);
+    density = `not run: the Stan run was taken from ${stanFrom} (run without --stan-from to compare the densities)`;
+  } else {
+    const dir = mkdtempSync(join(tmpdir(), "tributary-model-"));
+    const dataFile = join(dir, "data.json");
+    writeFileSync(dataFile, JSON.stringify(stanData(data)));
+    density = densityCheck(dataFile, dir);
+    const script = fileURLToPath(new URL("./model-stan.R", import.meta.url));
+    const cores = String(Math.min(4, availableParallelism()));
+    const text = execFileSync("Rscript", [script, dataFile, "4", "1000", "1000", String(seed), cores], { encoding: "utf8", env: stanEnv(), maxBuffer: 1 << 26 });
+    s = JSON.parse(text.slice(text.indexOf("{"))) as StanRun;
+  }
+  stan = { ...s, essBulkPerSecond: s.minEssBulk / s.wallSeconds, ...(stanFrom !== undefined ? { reusedFrom: stanFrom } : {}) };
   // Stan names cac0[g,c] with 1-based indices; ours are cac0[g,channel] with 0-based cells
   const cacComparison = tributary.cac0.map((ours, i) => {
     const g = Math.floor(i / data.channels.length);
@@ -260,6 +308,10 @@ const result = {
   settings: { chains: 4, warmup: 1000, draws: 1000, seed, maxTreeDepth: 10, targetAcceptance: 0.8 },
   msPerGradient,
   tributary,
+  otherPortfolios: {
+    demo: { portfolio: portfolioDescriptions.demo, ...others.demo },
+    example: { portfolio: `${portfolioDescriptions.example}, data seed 1`, ...others.example },
+  },
   stan: stan ?? stanMissing,
   densityCheck: density,
   comparison,
@@ -267,6 +319,8 @@ const result = {
     maxRhat: { target: 1.01, met: tributary.maxRhat <= 1.01 },
     minEssBulk: { target: 400, met: tributary.minEssBulk >= 400 },
     divergences: { target: 0, met: tributary.divergences === 0 },
+    divergencesDemo: { target: 0, met: others.demo.divergences === 0 },
+    divergencesExample: { target: 0, met: others.example.divergences === 0 },
     wallSeconds: { target: 60, met: tributary.wallSeconds < 60 },
     msPerGradient: { target: 0.1, met: msPerGradient <= 0.1 },
     essPerSecondVsStan: comparison ? { target: 3, met: (comparison.essBulkPerSecondRatio as number) >= 3 } : null,
