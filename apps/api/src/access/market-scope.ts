@@ -3,7 +3,7 @@ import { asc, inArray, sql, type SQL } from "drizzle-orm";
 import type { AnyPgColumn } from "drizzle-orm/pg-core";
 import type { CurrentUser } from "@tributary/contracts";
 import type { Queryable } from "../db/client";
-import { dataGenerationOf, type DataGeneration } from "../db/data-generation";
+import { readThroughGeneration } from "../db/data-generation";
 import { markets } from "../db/schema";
 import type { MarketScope } from "./route-table";
 
@@ -12,10 +12,7 @@ export function seesAllMarkets(user: CurrentUser): boolean {
   return user.role !== "market_manager";
 }
 
-/** Every market's id, read at a data generation (one list per database; see db/data-generation.ts). */
-const allMarketIds = new WeakMap<DataGeneration, { generation: number; marketIds: readonly string[] }>();
-
-async function readAllMarketIds(db: Queryable): Promise<string[]> {
+async function readAllMarketIds(db: Queryable): Promise<readonly string[]> {
   const rows = await db.select({ id: markets.id }).from(markets).orderBy(asc(markets.id));
   return rows.map((row) => row.id);
 }
@@ -26,13 +23,8 @@ async function readAllMarketIds(db: Queryable): Promise<string[]> {
  */
 export async function allowedMarkets(db: Queryable, user: CurrentUser): Promise<MarketScope> {
   if (!seesAllMarkets(user)) return { marketIds: [...user.marketIds], allMarkets: false };
-  const data = dataGenerationOf(db);
-  if (!data) return { marketIds: await readAllMarketIds(db), allMarkets: true };
-  const known = allMarketIds.get(data);
-  if (known && known.generation === data.current) return { marketIds: [...known.marketIds], allMarkets: true };
-  const read = await data.readAt(() => readAllMarketIds(db));
-  if (read.generation !== null && read.generation === data.current) allMarketIds.set(data, { generation: read.generation, marketIds: read.value });
-  return { marketIds: [...read.value], allMarkets: true };
+  const marketIds = await readThroughGeneration(db, "market-scope: every market", () => readAllMarketIds(db));
+  return { marketIds: [...marketIds], allMarkets: true };
 }
 
 /** The WHERE condition restricting a market-id column to the request's scope (false when empty). */

@@ -1,9 +1,10 @@
 // The data generation moves on every statement that may write (and on every transaction),
-// never on a plain read, and tells a read that overlapped a write apart from one that did not.
+// never on a plain read, and tells a read that overlapped a write apart from one that did not;
+// a read kept by readThroughGeneration is reused only until the next write.
 import { eq, sql } from "drizzle-orm";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { closeDatabase, createDatabase, type Database } from "./client";
-import { DataGeneration, dataGenerationOf, isReadOnlyStatement } from "./data-generation";
+import { DataGeneration, dataGenerationOf, isReadOnlyStatement, readThroughGeneration } from "./data-generation";
 import { markets } from "./schema";
 
 let db: Database;
@@ -100,5 +101,59 @@ describe("the generation of a database", () => {
     });
     expect(overlapped.generation).toBeNull();
     await db.delete(markets).where(eq(markets.code, "dunmere"));
+  });
+});
+
+describe("readThroughGeneration", () => {
+  const codes = () => db.select({ code: markets.code }).from(markets).orderBy(markets.code);
+
+  it("reuses a read until the next write, and keys reads apart", async () => {
+    const first = await readThroughGeneration(db, "test: market codes", codes);
+    const spy = vi.spyOn(db.$client, "query");
+    try {
+      expect(await readThroughGeneration(db, "test: market codes", codes)).toBe(first);
+      expect(spy).not.toHaveBeenCalled();
+      const other = await readThroughGeneration(db, "test: market codes, again", codes);
+      expect(other).not.toBe(first);
+      expect(other).toEqual(first);
+      expect(spy).toHaveBeenCalledTimes(1);
+    } finally {
+      spy.mockRestore();
+    }
+    await db.insert(markets).values({ code: "esterhold", name: "Esterhold" });
+    try {
+      const after = await readThroughGeneration(db, "test: market codes", codes);
+      expect(after.map((m) => m.code)).toContain("esterhold");
+    } finally {
+      await db.delete(markets).where(eq(markets.code, "esterhold"));
+    }
+    expect((await readThroughGeneration(db, "test: market codes", codes)).map((m) => m.code)).not.toContain("esterhold");
+  });
+
+  it("reads afresh inside a transaction, which sees its own writes", async () => {
+    await readThroughGeneration(db, "test: market codes", codes);
+    await db.transaction(async (tx) => {
+      await tx.insert(markets).values({ code: "fennick", name: "Fennick" });
+      const inside = await readThroughGeneration(tx, "test: market codes", () => tx.select({ code: markets.code }).from(markets).orderBy(markets.code));
+      expect(inside.map((m) => m.code)).toContain("fennick");
+      tx.rollback();
+    }).catch(() => undefined);
+    expect((await readThroughGeneration(db, "test: market codes", codes)).map((m) => m.code)).not.toContain("fennick");
+  });
+
+  it("does not keep a read that a write overlapped, and hands out frozen values", async () => {
+    let reads = 0;
+    const overlapped = async () => {
+      reads++;
+      const rows = await codes();
+      await db.update(markets).set({ name: "Veltria" }).where(eq(markets.code, "no-such-market"));
+      return rows;
+    };
+    await readThroughGeneration(db, "test: overlapped", overlapped);
+    await readThroughGeneration(db, "test: overlapped", overlapped);
+    expect(reads).toBe(2);
+    const kept = await readThroughGeneration(db, "test: market codes", codes);
+    expect(Object.isFrozen(kept)).toBe(true);
+    expect(() => (kept as { code: string }[]).push({ code: "x" })).toThrow(TypeError);
   });
 });

@@ -61,6 +61,43 @@ export function registerDataGeneration(db: object, generation: DataGeneration): 
   generations.set(db, generation);
 }
 
+/** Reads kept for the current generation, per database (see readThroughGeneration). */
+const memos = new WeakMap<DataGeneration, { generation: number; values: Map<string, unknown> }>();
+const MEMO_CAPACITY = 2_000;
+
+function deepFreeze<T>(value: T): T {
+  if (value !== null && typeof value === "object" && !Object.isFrozen(value) && !(value instanceof Date)) {
+    Object.freeze(value);
+    for (const inner of Object.values(value)) deepFreeze(inner);
+  }
+  return value;
+}
+
+/**
+ * The result of `read` under `key`, reused until the next write. `key` must name
+ * everything the read depends on; the read must depend on the database alone (not on
+ * the clock — no now() — nor on anything in memory). On a handle without a generation
+ * (a transaction, which may hold its own writes) it simply reads. Results are frozen,
+ * deeply, because every later caller shares them.
+ */
+export async function readThroughGeneration<T>(db: object, key: string, read: () => Promise<T>): Promise<T> {
+  const data = dataGenerationOf(db);
+  if (!data) return read();
+  const memo = memos.get(data);
+  if (memo && memo.generation === data.current && memo.values.has(key)) return memo.values.get(key) as T;
+  const result = await data.readAt(read);
+  const value = deepFreeze(result.value);
+  if (result.generation !== null && result.generation === data.current) {
+    let now = memos.get(data);
+    if (!now || now.generation !== result.generation || now.values.size >= MEMO_CAPACITY) {
+      now = { generation: result.generation, values: new Map() };
+      memos.set(data, now);
+    }
+    now.values.set(key, value);
+  }
+  return value;
+}
+
 /**
  * Wraps the client's public entry points (query and sql, exec, transaction) so every
  * statement that may write moves the generation before it is sent and after it finishes.
