@@ -8,6 +8,7 @@ import type { ClearFlagInput, CreateFlagInput, Flag, FlagKind } from "@tributary
 import { inScope } from "../access/market-scope";
 import type { MarketScope } from "../access/route-table";
 import type { Database, Queryable } from "../db/client";
+import { readThroughGeneration } from "../db/data-generation";
 import { auditLog, brands, cells, channels, flags, markets, runs, users } from "../db/schema";
 import { Conflict, Invalid, NotFound } from "../http/errors";
 
@@ -30,35 +31,39 @@ export async function listFlags(db: Queryable, scope: MarketScope, filter: FlagF
     filter.channel ? eq(channels.code, filter.channel) : undefined,
     filter.ids ? inArray(flags.id, [...filter.ids]) : undefined,
   ];
-  const rows = await db
-    .select({
-      id: flags.id,
-      cellId: flags.cellId,
-      brandId: cells.brandId,
-      marketId: cells.marketId,
-      brand: brands.name,
-      market: markets.name,
-      channel: channels.code,
-      channelName: channels.name,
-      kind: flags.kind,
-      note: flags.note,
-      runId: flags.runId,
-      createdAt: flags.createdAt,
-      createdById: flags.createdBy,
-      createdByName: users.name,
-      clearedAt: flags.clearedAt,
-      clearedById: flags.clearedBy,
-      clearedByName: clearers.name,
-    })
-    .from(flags)
-    .innerJoin(cells, eq(cells.id, flags.cellId))
-    .innerJoin(brands, eq(brands.id, cells.brandId))
-    .innerJoin(markets, eq(markets.id, cells.marketId))
-    .innerJoin(channels, eq(channels.id, flags.channelId))
-    .leftJoin(users, eq(users.id, flags.createdBy))
-    .leftJoin(clearers, eq(clearers.id, flags.clearedBy))
-    .where(and(...conditions))
-    .orderBy(desc(flags.createdAt), desc(flags.id));
+  // Reused until the next write (db/data-generation.ts); the key names everything the query depends on.
+  const key = `flag list\u0000${JSON.stringify([scope.marketIds, status, filter.cellIds ?? null, filter.channel ?? null, filter.ids ?? null])}`;
+  const rows = await readThroughGeneration(db, key, () =>
+    db
+      .select({
+        id: flags.id,
+        cellId: flags.cellId,
+        brandId: cells.brandId,
+        marketId: cells.marketId,
+        brand: brands.name,
+        market: markets.name,
+        channel: channels.code,
+        channelName: channels.name,
+        kind: flags.kind,
+        note: flags.note,
+        runId: flags.runId,
+        createdAt: flags.createdAt,
+        createdById: flags.createdBy,
+        createdByName: users.name,
+        clearedAt: flags.clearedAt,
+        clearedById: flags.clearedBy,
+        clearedByName: clearers.name,
+      })
+      .from(flags)
+      .innerJoin(cells, eq(cells.id, flags.cellId))
+      .innerJoin(brands, eq(brands.id, cells.brandId))
+      .innerJoin(markets, eq(markets.id, cells.marketId))
+      .innerJoin(channels, eq(channels.id, flags.channelId))
+      .leftJoin(users, eq(users.id, flags.createdBy))
+      .leftJoin(clearers, eq(clearers.id, flags.clearedBy))
+      .where(and(...conditions))
+      .orderBy(desc(flags.createdAt), desc(flags.id)),
+  );
   return rows.map((row) => ({
     id: row.id,
     cellId: row.cellId,

@@ -26,6 +26,7 @@ import { brandComparisonView, channelSheetView, marketDeskView, poolingReviewVie
 import { demoFitStatus } from "../demo/demo-fit";
 import { runRecord } from "../runs/run-queries";
 import type { Queryable } from "../db/client";
+import { readThroughGeneration } from "../db/data-generation";
 
 const reviewRoles = ["analyst", "admin"] as const;
 
@@ -84,7 +85,8 @@ async function poolingReview(ctx: SignedInContext): Promise<PoolingReview> {
 
 /** The markets of a cell, for the Channel sheet's market rule (null: no such cell). */
 async function cellMarkets(cellId: string, db: Queryable): Promise<string[] | null> {
-  const [row] = await db.select({ marketId: cells.marketId }).from(cells).where(eq(cells.id, cellId));
+  // Reused until the next write (db/data-generation.ts).
+  const [row] = await readThroughGeneration(db, `cell's market\u0000${cellId}`, () => db.select({ marketId: cells.marketId }).from(cells).where(eq(cells.id, cellId)));
   return row ? [row.marketId] : null;
 }
 

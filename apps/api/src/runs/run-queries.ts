@@ -5,6 +5,7 @@ import { alias } from "drizzle-orm/pg-core";
 import type { FitDiagnosticsView, ModelSettings, Run, RunProgress, RunStatus } from "@tributary/contracts";
 import type { MarketScope } from "../access/route-table";
 import type { Queryable } from "../db/client";
+import { readThroughGeneration } from "../db/data-generation";
 import { datasetVersions, modelSettings, runs, users } from "../db/schema";
 import type { JobSnapshot } from "../jobs/job-runner";
 import type { FitJobProgress } from "../jobs/fit-job";
@@ -132,15 +133,18 @@ export async function runRecord(db: Queryable, runId: string, live: LiveProgress
 }
 
 export async function listRunRecords(db: Queryable, live: LiveProgress, filter: { statuses?: readonly RunStatus[]; datasetVersionId?: string } = {}): Promise<Run[]> {
-  const rows = await selectRuns(db)
-    .where(
-      and(
-        filter.statuses && filter.statuses.length > 0 ? inArray(runs.status, [...filter.statuses]) : undefined,
-        filter.datasetVersionId ? eq(runs.datasetVersionId, filter.datasetVersionId) : undefined,
-      ),
-    )
-    .orderBy(desc(runs.createdAt));
-  const current = await currentRunId(db);
+  // The stored part is reused until the next write (db/data-generation.ts); live progress is added on every call.
+  const { rows, current } = await readThroughGeneration(db, `run list\u0000${JSON.stringify([filter.statuses ?? null, filter.datasetVersionId ?? null])}`, async () => {
+    const rows = await selectRuns(db)
+      .where(
+        and(
+          filter.statuses && filter.statuses.length > 0 ? inArray(runs.status, [...filter.statuses]) : undefined,
+          filter.datasetVersionId ? eq(runs.datasetVersionId, filter.datasetVersionId) : undefined,
+        ),
+      )
+      .orderBy(desc(runs.createdAt));
+    return { rows, current: await currentRunId(db) };
+  });
   return rows.map((row) => runOf(row as RunRow, current, live(row.id)));
 }
 
