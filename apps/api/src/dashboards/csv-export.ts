@@ -45,12 +45,20 @@ const intervalValues = (i: CacInterval | null | undefined): CsvValue[] => (i ? [
 const runFields = ["run_id", "run_fitted_at", "run_trustworthy", "run_publish_reason"];
 const runValues = (run: Run): CsvValue[] => [run.id, run.finishedAt, run.trust.trustworthy, run.publication?.reason ?? null];
 
+type NamedChannel = { readonly code: string; readonly name: string } | { readonly channel: string; readonly name: string };
+
+/** Channel code → display name (the code when a channel has no name): exports are read by people. */
+function channelNamer(channels: readonly NamedChannel[]): (code: string) => string {
+  const names = new Map(channels.map((c) => ["code" in c ? c.code : c.channel, c.name] as const));
+  return (code) => names.get(code) || code;
+}
+
 function flagText(flags: readonly Flag[], ids: readonly string[]): string {
   const byId = new Map(flags.map((f) => [f.id, f] as const));
   return ids
     .map((id) => byId.get(id))
     .filter((f): f is Flag => f !== undefined)
-    .map((f) => `${flagKindLabels[f.kind]} (${f.channel}): ${f.note}`)
+    .map((f) => `${flagKindLabels[f.kind]} (${f.channelName || f.channel}): ${f.note}`)
     .join(" | ");
 }
 
@@ -77,7 +85,7 @@ export function portfolioMapTable(view: PortfolioMap): CsvTable {
     rows: view.cells.map((cell) => [
       cell.brand,
       cell.market,
-      view.channel ?? "all channels",
+      view.channel === null ? "all channels" : channelNamer(view.channels)(view.channel),
       ...intervalValues(cell.cac),
       view.headline.label,
       ...intervalValues(cell.cacAverage),
@@ -97,11 +105,12 @@ export function portfolioMapTable(view: PortfolioMap): CsvTable {
 
 export function brandComparisonTable(view: BrandComparison): CsvTable {
   const reference = new Map(view.channels.map((c) => [c.channel, c.portfolioEffect] as const));
+  const channelName = channelNamer(view.channels);
   return {
     fields: ["channel", "brand", "market", "has_spend", ...intervalFields("cac"), ...intervalFields("cac_unpooled"), ...intervalFields("brand_effect"), ...intervalFields("portfolio_effect"), "shrinkage", "outlier", "flags", ...runFields],
     rows: view.rows.flatMap((row) =>
       row.cells.map((cell) => [
-        row.channel,
+        channelName(row.channel),
         row.brand,
         cell.market,
         cell.hasSpend,
@@ -121,13 +130,14 @@ export function brandComparisonTable(view: BrandComparison): CsvTable {
 export const marketDeskTables = ["estimates", "changes", "plans"] as const;
 
 export function marketDeskTable(view: MarketDesk, table: (typeof marketDeskTables)[number]): CsvTable {
+  const channelName = channelNamer(view.channels);
   if (table === "changes") {
     return {
       fields: ["brand", "market", "channel", "status", ...intervalFields("cac_before"), ...intervalFields("cac_after"), "median_change", "intervals_overlap", "previous_run_id", ...runFields],
       rows: view.changes.map((x) => [
         x.brand,
         x.market,
-        x.channel,
+        channelName(x.channel),
         x.status,
         x.before?.q50 ?? null,
         x.before?.q05 ?? null,
@@ -154,7 +164,7 @@ export function marketDeskTable(view: MarketDesk, table: (typeof marketDeskTable
       cell.channels.map((ch) => [
         cell.brand,
         cell.market,
-        ch.channel,
+        channelName(ch.channel),
         ch.hasSpend,
         ...intervalValues(ch.cac),
         ...intervalValues(ch.cacAverage),
@@ -173,7 +183,7 @@ export function marketDeskTable(view: MarketDesk, table: (typeof marketDeskTable
 export const channelSheetTables = ["response-curve", "carry-over", "contribution", "profit-draws"] as const;
 
 export function channelSheetTable(view: ChannelSheet, table: (typeof channelSheetTables)[number]): CsvTable {
-  const who: CsvValue[] = [view.cell.brand, view.cell.market, view.channel.code];
+  const who: CsvValue[] = [view.cell.brand, view.cell.market, view.channel.name || view.channel.code];
   const whoFields = ["brand", "market", "channel"];
   const band = (prefix: string) => [`${prefix}_q05`, `${prefix}_q25`, `${prefix}_median`, `${prefix}_q75`, `${prefix}_q95`];
   if (table === "carry-over") {
@@ -226,18 +236,19 @@ export function channelSheetTable(view: ChannelSheet, table: (typeof channelShee
 export const poolingReviewTables = ["estimates", "pooling-factors", "outliers"] as const;
 
 export function poolingReviewTable(view: PoolingReview, table: (typeof poolingReviewTables)[number]): CsvTable {
+  const channelName = channelNamer(view.channels);
   if (table === "pooling-factors") {
-    return { fields: ["level", "channel", "pooling_factor", "run_id"], rows: view.poolingFactors.map((p) => [p.level, p.channel, p.poolingFactor, view.run.id]) };
+    return { fields: ["level", "channel", "pooling_factor", "run_id"], rows: view.poolingFactors.map((p) => [p.level, channelName(p.channel), p.poolingFactor, view.run.id]) };
   }
   if (table === "outliers") {
-    return { fields: ["brand", "market", "channel", "reason", "run_id"], rows: view.outliers.map((o) => [o.brand, o.market, o.channel, o.reason, view.run.id]) };
+    return { fields: ["brand", "market", "channel", "reason", "run_id"], rows: view.outliers.map((o) => [o.brand, o.market, o.channelName || o.channel, o.reason, view.run.id]) };
   }
   return {
     fields: ["brand", "market", "channel", "has_spend", ...intervalFields("pooled_cac"), ...intervalFields("unpooled_cac"), ...intervalFields("group_cac"), "shrinkage", "shrinkage_mark", "outlier", "outlier_reason", "flags", ...runFields],
     rows: view.rows.map((r) => [
       r.brand,
       r.market,
-      r.channel,
+      channelName(r.channel),
       r.hasSpend,
       ...intervalValues(r.pooled),
       ...intervalValues(r.unpooled),
@@ -255,6 +266,6 @@ export function poolingReviewTable(view: PoolingReview, table: (typeof poolingRe
 export function flagsTable(flags: readonly Flag[]): CsvTable {
   return {
     fields: ["brand", "market", "channel", "kind", "note", "flagged_by", "flagged_at", "active", "cleared_by", "cleared_at", "run_id"],
-    rows: flags.map((f) => [f.brand, f.market, f.channel, flagKindLabels[f.kind], f.note, f.createdBy?.name ?? null, f.createdAt, f.active, f.clearedBy?.name ?? null, f.clearedAt, f.runId]),
+    rows: flags.map((f) => [f.brand, f.market, f.channelName || f.channel, flagKindLabels[f.kind], f.note, f.createdBy?.name ?? null, f.createdAt, f.active, f.clearedBy?.name ?? null, f.clearedAt, f.runId]),
   };
 }

@@ -90,7 +90,7 @@ describe("CSV exports and formula injection", () => {
       }
     }
     // The hostile texts did reach the exports (neutralised), so the check above had something to catch.
-    // (Dashboard exports name channels by code, a plan's allocation by display name; plans appear only in the file name.)
+    // (Exports name channels by display name; plans appear only in the file name.)
     expect([...seen].sort()).toEqual(["brand", "channel", "flag", "market", "reason"]);
   });
 });

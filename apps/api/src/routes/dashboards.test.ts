@@ -522,7 +522,8 @@ describe("exports neutralise spreadsheet formulas", () => {
       expect(csv).not.toMatch(/(^|,|\r\n)=Plumrise/);
     }
     const sheetCsv = (await analyst.get(`/api/dashboards/channel-sheet/${cell("Plumrise × Veltria")}/social/export.csv?table=carry-over`).expect(200)).text;
-    expect(sheetCsv.split("\r\n")[1]).toMatch(/^"'=Plumrise",Veltria,social,0,/);
+    // Channels by their display name (the URL takes the code).
+    expect(sheetCsv.split("\r\n")[1]).toMatch(/^"'=Plumrise",Veltria,Social,0,/);
     await t.db.update(brands).set({ name: "Plumrise" }).where(eq(brands.code, "plumrise"));
   });
 });
