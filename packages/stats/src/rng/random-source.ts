@@ -1,6 +1,6 @@
 /**
  * A seeded source of randomness. Every random quantity in this package comes from one;
- * `Math.random` is never used, so a run with the same seed gives the same draws.
+ * the platform's unseeded generator is never used, so a run with the same seed gives the same draws.
  */
 export interface RandomSource {
   /** Uniform on [0, 1). */
