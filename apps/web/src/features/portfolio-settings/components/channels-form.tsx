@@ -7,7 +7,7 @@ import { Button } from "../../../components/ui/button";
 import { inputClass } from "../../../components/ui/field";
 import { ApiError } from "../../../lib/api-client";
 import { channelSettingsInput, useUpdateChannelSettings } from "../api/update-channel-settings";
-import { SaveFeedback } from "./save-feedback";
+import { FormActions, SaveFeedback } from "./save-feedback";
 
 type ChannelsForm = z.input<typeof channelSettingsInput>;
 
@@ -161,29 +161,24 @@ export function ChannelsForm({ settings }: { settings: PortfolioSettings }) {
       <p className="sr-only" aria-live="polite">
         {announcement}
       </p>
-      <div className="flex flex-wrap items-center gap-2">
-        <Button type="submit" disabled={update.isPending || !isDirty}>
-          {update.isPending ? "Saving…" : "Save channels"}
-        </Button>
-        <Button
-          variant="secondary"
-          disabled={update.isPending || !isDirty}
-          onClick={() => {
-            form.reset(valuesOf(settings));
-            setDone(null);
-            update.reset();
-            setAnnouncement("");
-          }}
-        >
-          Undo changes
-        </Button>
+      <FormActions
+        saveLabel="Save channels"
+        pending={update.isPending}
+        dirty={isDirty}
+        onUndo={() => {
+          form.reset(valuesOf(settings));
+          setDone(null);
+          update.reset();
+          setAnnouncement("");
+        }}
+      >
         <SaveFeedback
           error={update.error}
           done={done}
           fallback="The channels could not be saved. Please try again."
           isFieldPath={(path) => /^channels\.\d+\.name$/.test(path)}
         />
-      </div>
+      </FormActions>
     </form>
   );
 }

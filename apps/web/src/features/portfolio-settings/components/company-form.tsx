@@ -3,11 +3,10 @@ import { currencyCodes, type PortfolioSettings } from "@tributary/contracts";
 import { useEffect, useMemo, useState } from "react";
 import { Controller, useForm } from "react-hook-form";
 import type { z } from "zod";
-import { Button } from "../../../components/ui/button";
 import { describedBy, inputClass } from "../../../components/ui/field";
 import { ApiError } from "../../../lib/api-client";
 import { companySettingsInput, useUpdateCompanySettings } from "../api/update-company-settings";
-import { SaveFeedback } from "./save-feedback";
+import { FormActions, SaveFeedback } from "./save-feedback";
 
 type CompanyForm = z.input<typeof companySettingsInput>;
 
@@ -129,28 +128,23 @@ export function CompanyForm({ settings }: { settings: PortfolioSettings }) {
         costs per customer and customer values stay as they are and are shown with the new code.
         {currencyChanged ? ` Every figure now in ${settings.currency} will read as ${chosenCurrency}. Only do this to correct the label, or after uploading the data in ${chosenCurrency}.` : ""}
       </p>
-      <div className="flex flex-wrap items-center gap-2">
-        <Button type="submit" disabled={update.isPending || !isDirty}>
-          {update.isPending ? "Saving…" : "Save company"}
-        </Button>
-        <Button
-          variant="secondary"
-          disabled={update.isPending || !isDirty}
-          onClick={() => {
-            form.reset(saved);
-            setDone(null);
-            update.reset();
-          }}
-        >
-          Undo changes
-        </Button>
+      <FormActions
+        saveLabel="Save company"
+        pending={update.isPending}
+        dirty={isDirty}
+        onUndo={() => {
+          form.reset(saved);
+          setDone(null);
+          update.reset();
+        }}
+      >
         <SaveFeedback
           error={update.error}
           done={done}
           fallback="The company settings could not be saved. Please try again."
           isFieldPath={(path) => path === "companyName" || path === "currency"}
         />
-      </div>
+      </FormActions>
     </form>
   );
 }

@@ -3,12 +3,11 @@ import type { PortfolioSettings } from "@tributary/contracts";
 import { useEffect, useState } from "react";
 import { useFieldArray, useForm } from "react-hook-form";
 import type { z } from "zod";
-import { Button } from "../../../components/ui/button";
 import { inputClass } from "../../../components/ui/field";
 import { ApiError } from "../../../lib/api-client";
 import { formatMoney } from "../../../lib/format";
 import { customerValuesInput, useUpdateCustomerValues } from "../api/update-customer-values";
-import { SaveFeedback } from "./save-feedback";
+import { FormActions, SaveFeedback } from "./save-feedback";
 
 type ValuesForm = z.input<typeof customerValuesInput>;
 
@@ -138,28 +137,23 @@ export function CustomerValuesForm({ settings }: { settings: PortfolioSettings }
           </tbody>
         </table>
       )}
-      <div className="flex flex-wrap items-center gap-2">
-        <Button type="submit" disabled={update.isPending || !isDirty}>
-          {update.isPending ? "Saving…" : "Save customer values"}
-        </Button>
-        <Button
-          variant="secondary"
-          disabled={update.isPending || !isDirty}
-          onClick={() => {
-            form.reset(valuesOf(settings));
-            setDone(null);
-            update.reset();
-          }}
-        >
-          Undo changes
-        </Button>
+      <FormActions
+        saveLabel="Save customer values"
+        pending={update.isPending}
+        dirty={isDirty}
+        onUndo={() => {
+          form.reset(valuesOf(settings));
+          setDone(null);
+          update.reset();
+        }}
+      >
         <SaveFeedback
           error={update.error}
           done={done}
           fallback="The customer values could not be saved. Please try again."
           isFieldPath={(path) => /^brands\.\d+\.customerValue$/.test(path)}
         />
-      </div>
+      </FormActions>
     </form>
   );
 }

@@ -1,3 +1,5 @@
+import type { ReactNode } from "react";
+import { Button } from "../../../components/ui/button";
 import { ApiError } from "../../../lib/api-client";
 
 /**
@@ -18,5 +20,20 @@ export function SaveFeedback({ error, done, fallback, isFieldPath }: { error: Er
     <p role="status" className="ml-2 text-small font-medium text-ok-700">
       {done ?? ""}
     </p>
+  );
+}
+
+/** A settings form's Save and Undo buttons, with the save's outcome beside them. */
+export function FormActions({ saveLabel, pending, dirty, onUndo, children }: { saveLabel: string; pending: boolean; dirty: boolean; onUndo: () => void; children: ReactNode }) {
+  return (
+    <div className="flex flex-wrap items-center gap-2">
+      <Button type="submit" disabled={pending || !dirty}>
+        {pending ? "Saving…" : saveLabel}
+      </Button>
+      <Button variant="secondary" disabled={pending || !dirty} onClick={onUndo}>
+        Undo changes
+      </Button>
+      {children}
+    </div>
   );
 }
