@@ -5,6 +5,7 @@ import { cellEffectEstimates, fitCellEffectGuide, guideSaturation } from "../../
 import { simulatePortfolio } from "../../src/simulate/simulate-portfolio";
 import type { SimulationDesign } from "../../src/simulate/simulation-design";
 import { testRandomSource } from "./test-random-source";
+import { invertMatrix } from "./reference-density";
 
 const design: SimulationDesign = {
   channels: ["Search", "Video"],
@@ -54,7 +55,7 @@ describe("the sampler's data guide", () => {
     const p = columns.length;
     const xtx = columns.map((ci) => columns.map((cj) => ci.reduce((s, v, t) => s + v * cj[t]!, 0)));
     const xty = columns.map((ci) => ci.reduce((s, v, t) => s + v * cell.outcome[t]!, 0));
-    const inverse = invert(xtx);
+    const inverse = invertMatrix(xtx);
     const coef = inverse.map((row) => row.reduce((s, v, j) => s + v * xty[j]!, 0));
     const rss = Array.from(cell.outcome).reduce((s, y, t) => s + (y - columns.reduce((f, col, i) => f + coef[i]! * col[t]!, 0)) ** 2, 0);
     design.channels.forEach((_, c) => {
@@ -85,21 +86,3 @@ describe("the sampler's data guide", () => {
     }
   });
 });
-
-function invert(a: number[][]): number[][] {
-  const n = a.length;
-  const m = a.map((row, i) => [...row, ...Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))]);
-  for (let col = 0; col < n; col++) {
-    let pivot = col;
-    for (let r = col + 1; r < n; r++) if (Math.abs(m[r]![col]!) > Math.abs(m[pivot]![col]!)) pivot = r;
-    [m[col], m[pivot]] = [m[pivot]!, m[col]!];
-    const p = m[col]![col]!;
-    for (let j = 0; j < 2 * n; j++) m[col]![j] = m[col]![j]! / p;
-    for (let r = 0; r < n; r++) {
-      if (r === col) continue;
-      const f = m[r]![col]!;
-      for (let j = 0; j < 2 * n; j++) m[r]![j] = m[r]![j]! - f * m[col]![j]!;
-    }
-  }
-  return m.map((row) => row.slice(n));
-}

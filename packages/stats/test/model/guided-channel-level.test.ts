@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { GuidedChannelLevel } from "../../src/model/portfolio/guided-channel-level";
 import { testRandomSource } from "./test-random-source";
+import { invertMatrix } from "./reference-density";
 
 // A crossed design: 4 brands in 3 markets, 8 cells (cell 5 unguided, as a channel whose
 // least-squares estimate is too weak), 2 channels; channel 1 has no guide at all.
@@ -17,24 +18,6 @@ const guidePrecision = Float64Array.from({ length: G * C }, (_, i) => {
   return i % C === 1 || g === 5 ? 0 : 1 / (0.05 + 0.3 * rng.uniform()) ** 2;
 });
 const q = Float64Array.from({ length: C + B * C }, () => rng.normal());
-
-function invert(a: number[][]): number[][] {
-  const n = a.length;
-  const m = a.map((row, i) => [...row, ...Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))]);
-  for (let col = 0; col < n; col++) {
-    let pivot = col;
-    for (let r = col + 1; r < n; r++) if (Math.abs(m[r]![col]!) > Math.abs(m[pivot]![col]!)) pivot = r;
-    [m[col], m[pivot]] = [m[pivot]!, m[col]!];
-    const p = m[col]![col]!;
-    for (let j = 0; j < 2 * n; j++) m[col]![j] = m[col]![j]! / p;
-    for (let r = 0; r < n; r++) {
-      if (r === col) continue;
-      const f = m[r]![col]!;
-      for (let j = 0; j < 2 * n; j++) m[r]![j] = m[r]![j]! - f * m[col]![j]!;
-    }
-  }
-  return m.map((row) => row.slice(n));
-}
 
 /**
  * The conditional mean and covariance of x = (μ − m0, δB) by brute force: the joint Gaussian
@@ -56,7 +39,7 @@ function exactConditional(c: number, m0: number, s0: number, tauB: number, tauM:
       for (const j of z) precision[i]![j] = precision[i]![j]! + prec;
     }
   }
-  const cov = invert(precision);
+  const cov = invertMatrix(precision);
   const mean = cov.map((row) => row.reduce((s, v, j) => s + v * linear[j]!, 0));
   return { mean: mean.slice(0, 1 + nB), cov: cov.slice(0, 1 + nB).map((row) => row.slice(0, 1 + nB)) };
 }

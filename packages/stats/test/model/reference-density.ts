@@ -224,8 +224,8 @@ export function referenceLogDensity(model: PortfolioDensity, data: PortfolioData
   return lp + jac;
 }
 
-/** Inverse of a small matrix by Gauss–Jordan elimination with partial pivoting. */
-function invertMatrix(a: number[][]): number[][] {
+/** Inverse of a small matrix by Gauss–Jordan elimination with partial pivoting (shared by the model tests). */
+export function invertMatrix(a: number[][]): number[][] {
   const n = a.length;
   const m = a.map((row, i) => [...row, ...Array.from({ length: n }, (_, j) => (i === j ? 1 : 0))]);
   for (let col = 0; col < n; col++) {
