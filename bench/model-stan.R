@@ -3,7 +3,10 @@
 # written by bench/model.ts and prints JSON: timings, gradient evaluations, diagnostics from
 # R's posterior package and the cells' CAC0 medians with their Monte Carlo standard errors.
 #
-#   Rscript bench/model-stan.R DATA.json CHAINS WARMUP DRAWS SEED CORES
+#   Rscript bench/model-stan.R DATA.json CHAINS WARMUP DRAWS SEED CORES [ADAPT_DELTA]
+#
+# ADAPT_DELTA is Stan's target acceptance (default 0.8). A higher value gives smaller steps,
+# which helps Stan avoid divergent transitions on this posterior, at more gradients per draw.
 suppressPackageStartupMessages({
   library(rstan)
   library(posterior)
@@ -16,6 +19,7 @@ here <- dirname(normalizePath(self))
 data <- fromJSON(args[1])
 chains <- as.integer(args[2]); warmup <- as.integer(args[3]); draws <- as.integer(args[4])
 seed <- as.integer(args[5]); cores <- as.integer(args[6])
+adapt_delta <- if (length(args) >= 7) as.numeric(args[7]) else 0.8
 
 cache <- Sys.getenv("TRIBUTARY_STAN_CACHE", tempdir())
 source_file <- file.path(here, "model.stan")
@@ -32,7 +36,7 @@ if (file.exists(rds)) {
 
 t0 <- Sys.time()
 fit <- sampling(sm, data = data, chains = chains, warmup = warmup, iter = warmup + draws, seed = seed,
-                cores = cores, refresh = 0, control = list(adapt_delta = 0.8, max_treedepth = 10))
+                cores = cores, refresh = 0, control = list(adapt_delta = adapt_delta, max_treedepth = 10))
 wall <- as.numeric(difftime(Sys.time(), t0, units = "secs"))
 
 sp_all <- get_sampler_params(fit, inc_warmup = TRUE)
@@ -44,7 +48,7 @@ summ <- summarise_draws(subset_draws(da, variable = keep), "median", rhat, ess_b
 cac <- summ[grepl("^cac0\\[", summ$variable), ]
 out <- list(
   stan = stan_version(), rstan = as.character(packageVersion("rstan")),
-  chains = chains, warmup = warmup, draws = draws, seed = seed, cores = cores,
+  chains = chains, warmup = warmup, draws = draws, seed = seed, cores = cores, adaptDelta = adapt_delta,
   wallSeconds = wall,
   chainSeconds = unname(rowSums(get_elapsed_time(fit))),
   compileSeconds = compile_s,

@@ -6,7 +6,9 @@
 // also writes it; `--no-stan` skips Stan; `--stan-from FILE` takes the Stan run from an
 // earlier result file (same data and seed; Stan's side does not depend on our code) instead
 // of running it again; `--seed N`; `--density-only` only compares the log densities of the
-// two implementations at a few points.
+// two implementations at a few points; `--stan-adapt-delta X` sets Stan's target acceptance
+// (default 0.8); `--stan-only` runs only Stan (and the density check) and writes its side, to
+// be reused with `--stan-from` while the machine is otherwise quiet.
 import { readFileSync } from "node:fs";
 import { execFileSync } from "node:child_process";
 import { mkdtempSync, writeFileSync } from "node:fs";
@@ -23,6 +25,8 @@ import type { PortfolioData } from "../packages/stats/src/data/portfolio-data";
 import { sampleChainsInWorkers } from "../packages/stats/src/parallel/node-worker-pool";
 import { createRandomSource } from "../packages/stats/src/rng/create-random-source";
 import type { ChainResult, SamplerSettings } from "../packages/stats/src/sampler/sampler-settings";
+import { normalQuantile } from "../packages/stats/src/diagnostics/normal-quantile";
+import { chiSquareUpperTail } from "./chi-square";
 import { benchmarkPortfolio } from "./model-portfolio";
 import { demoPortfolio, examplePortfolio, portfolioDescriptions } from "./model-portfolios";
 
@@ -35,6 +39,9 @@ const withStan = !argv.includes("--no-stan");
 const outFile = option("--out");
 const seed = Number(option("--seed") ?? 2024);
 const stanFrom = option("--stan-from");
+const stanAdaptDelta = Number(option("--stan-adapt-delta") ?? 0.8);
+if (!(stanAdaptDelta > 0 && stanAdaptDelta < 1)) throw new Error("--stan-adapt-delta must be between 0 and 1");
+const stanOnly = argv.includes("--stan-only");
 const options: PortfolioModelOptions = {};
 /** The named parameters of the specification; min ESS and max R-hat are taken over these on both sides. */
 const NAMED = /^(mu|tauBrand|tauMarket|tauCell|alpha|lambda|cac0|beta0|beta1|sigma|gamma|delta)\[/;
@@ -257,28 +264,61 @@ function stanFromFile(file: string): StanRun {
   return run;
 }
 
+/**
+ * How the cells' differences in units of combined MCSE compare with what two exact samplers
+ * would give (each z about standard normal): 2·Φ(−2) ≈ 4.55 % of them beyond 2 by chance
+ * alone, so about 1.8 of 40; Σz² against chi-square with one degree of freedom per cell; the
+ * largest |z| against the Bonferroni bound for a 5 % family-wise level. The z's of one run
+ * are correlated (the cells share μ and the τ's), so these are rough readings.
+ */
+function agreement(z: number[]) {
+  const n = z.length;
+  const sumSquares = z.reduce((a, v) => a + v * v, 0);
+  return {
+    expectedBeyondTwoIfEqual: n * 0.0455,
+    meanZ: z.reduce((a, v) => a + v, 0) / n,
+    sumSquaredZ: sumSquares,
+    chiSquarePValue: chiSquareUpperTail(sumSquares, n),
+    maxAbsZ: Math.max(...z.map(Math.abs)),
+    bonferroniBound: normalQuantile(1 - 0.025 / n),
+  };
+}
+
+/** Stan's side: a fresh run (with the density check) or the run of an earlier result file. */
+function stanSide(): { run: StanRun; density: string | ReturnType<typeof densityCheck> } {
+  if (stanFrom !== undefined) {
+    return { run: stanFromFile(stanFrom), density: `not run: the Stan run was taken from ${stanFrom} (run without --stan-from to compare the densities)` };
+  }
+  const dir = mkdtempSync(join(tmpdir(), "tributary-model-"));
+  const dataFile = join(dir, "data.json");
+  writeFileSync(dataFile, JSON.stringify(stanData(data)));
+  const density = densityCheck(dataFile, dir);
+  const script = fileURLToPath(new URL("./model-stan.R", import.meta.url));
+  const cores = String(Math.min(4, availableParallelism()));
+  const text = execFileSync("Rscript", [script, dataFile, "4", "1000", "1000", String(seed), cores, String(stanAdaptDelta)], { encoding: "utf8", env: stanEnv(), maxBuffer: 1 << 26 });
+  return { run: JSON.parse(text.slice(text.indexOf("{"))) as StanRun, density };
+}
+
+const stanMissing = stanFrom === undefined ? stanAvailable() : null;
+if (stanOnly) {
+  if (stanMissing !== null) throw new Error(`--stan-only: ${stanMissing}`);
+  const side = stanSide();
+  const json = JSON.stringify({ benchmark: "model (Stan side only)", seed, stan: side.run, densityCheck: side.density }, null, 2);
+  console.log(json);
+  if (outFile) writeFileSync(outFile, `${json}\n`);
+  process.exit(0);
+}
+
 const msPerGradient = gradientTime();
 const tributary = await runTributary();
 const others = { demo: await runOther(demoPortfolio()), example: await runOther(examplePortfolio(1)) };
-const stanMissing = stanFrom === undefined ? stanAvailable() : null;
 let stan: null | Record<string, unknown> = null;
 let comparison: null | Record<string, unknown> = null;
 let density: null | string | ReturnType<typeof densityCheck> = null;
 if (stanMissing === null) {
-  let s: StanRun;
-  if (stanFrom !== undefined) {
-    s = stanFromFile(stanFrom);
-    density = `not run: the Stan run was taken from ${stanFrom} (run without --stan-from to compare the densities)`;
-  } else {
-    const dir = mkdtempSync(join(tmpdir(), "tributary-model-"));
-    const dataFile = join(dir, "data.json");
-    writeFileSync(dataFile, JSON.stringify(stanData(data)));
-    density = densityCheck(dataFile, dir);
-    const script = fileURLToPath(new URL("./model-stan.R", import.meta.url));
-    const cores = String(Math.min(4, availableParallelism()));
-    const text = execFileSync("Rscript", [script, dataFile, "4", "1000", "1000", String(seed), cores], { encoding: "utf8", env: stanEnv(), maxBuffer: 1 << 26 });
-    s = JSON.parse(text.slice(text.indexOf("{"))) as StanRun;
-  }
+  const side = stanSide();
+  const s = side.run;
+  density = side.density;
   stan = { ...s, essBulkPerSecond: s.minEssBulk / s.wallSeconds, ...(stanFrom !== undefined ? { reusedFrom: stanFrom } : {}) };
   // Stan names cac0[g,c] with 1-based indices; ours are cac0[g,channel] with 0-based cells
   const cacComparison = tributary.cac0.map((ours, i) => {
@@ -298,6 +338,7 @@ if (stanMissing === null) {
     cac0: cacComparison,
     cac0WithinTwoMcse: cacComparison.filter((c) => c.withinTwoMcse).length,
     cac0Count: cacComparison.length,
+    cac0Agreement: agreement(cacComparison.map((c) => (c.tributary - c.stan) / c.combinedMcse)),
   };
 }
 

@@ -4,6 +4,7 @@
 // posterior draws. With a correct density and sampler the ranks are uniform; a chi-square
 // test per parameter checks it. Prints JSON; `--out FILE` also writes it; `--sims N`.
 import { writeFileSync } from "node:fs";
+import { chiSquareUpperTail } from "./chi-square";
 import { absoluteWeekOf } from "../packages/stats/src/model/absolute-week";
 import { adstockGeometric } from "../packages/stats/src/model/adstock";
 import { seasonalDesignCentred, trendCentred } from "../packages/stats/src/model/baseline";
@@ -109,50 +110,6 @@ function drawFromPrior(rng: RandomSource): { truth: Record<string, number>; data
   return { truth, data: { channels, controls: [], cells } };
 }
 
-/** Upper tail of the chi-square distribution: Q(k/2, x/2) by series or continued fraction (Press et al., Numerical Recipes §6.2). */
-function chiSquareUpperTail(x: number, df: number): number {
-  const a = df / 2;
-  const z = x / 2;
-  if (z <= 0) return 1;
-  const logGammaA = lgamma(a);
-  if (z < a + 1) {
-    let sum = 1 / a;
-    let term = sum;
-    for (let n = 1; n < 500; n++) {
-      term *= z / (a + n);
-      sum += term;
-      if (Math.abs(term) < Math.abs(sum) * 1e-15) break;
-    }
-    return 1 - sum * Math.exp(-z + a * Math.log(z) - logGammaA);
-  }
-  let b = z + 1 - a;
-  let c = 1 / 1e-300;
-  let d = 1 / b;
-  let h = d;
-  for (let i = 1; i < 500; i++) {
-    const an = -i * (i - a);
-    b += 2;
-    d = an * d + b;
-    if (Math.abs(d) < 1e-300) d = 1e-300;
-    c = b + an / c;
-    if (Math.abs(c) < 1e-300) c = 1e-300;
-    d = 1 / d;
-    const delta = d * c;
-    h *= delta;
-    if (Math.abs(delta - 1) < 1e-15) break;
-  }
-  return Math.exp(-z + a * Math.log(z) - logGammaA) * h;
-}
-
-function lgamma(x: number): number {
-  const g = 7;
-  const p = [0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313, -176.61502916214059, 12.507343278686905, -0.13857109526572012, 9.9843695780195716e-6, 1.5056327351493116e-7];
-  const z = x - 1;
-  let s = p[0]!;
-  for (let i = 1; i < g + 2; i++) s += p[i]! / (z + i);
-  const t = z + g + 0.5;
-  return 0.5 * Math.log(2 * Math.PI) + (z + 0.5) * Math.log(t) - t + Math.log(s);
-}
 
 const rng = createRandomSource(20241);
 const problems = Array.from({ length: sims }, () => drawFromPrior(rng));
