@@ -1,11 +1,38 @@
 import { describe, expect, it } from "vitest";
 import {
+  adstockEmptiedWeeks,
   adstockGeometric,
   adstockGeometricDirect,
   adstockGeometricWithDerivative,
   adstockWeightSum,
   adstockWeightSumDerivative,
 } from "../../src/model/adstock";
+
+/** Invented flighted weekly spend: 2,000 to 290,000 a week with dark weeks and a long pause. */
+function flightedSpend(weeks: number): Float64Array {
+  const spend = new Float64Array(weeks);
+  for (let t = 0; t < weeks; t++) spend[t] = t % 13 < 5 || (t > 60 && t < 75) || t > 140 ? 0 : 2000 + ((t * 7919) % 97) * 3000;
+  return spend;
+}
+
+/** The α-derivative of the adstock as direct sums: (Σ l·α^{l−1}·x[t−l]·W − Σ α^l·x[t−l]·W′)/W². */
+function adstockDerivativeDirect(spend: Float64Array, alpha: number, maxLag: number, out: Float64Array): void {
+  const W = adstockWeightSum(alpha, maxLag);
+  const dW = adstockWeightSumDerivative(alpha, maxLag);
+  for (let t = 0; t < spend.length; t++) {
+    let sum = 0;
+    let dSum = 0;
+    let power = 1;
+    let powerBelow = 0;
+    for (let l = 0; l < maxLag && l <= t; l++) {
+      sum += power * spend[t - l]!;
+      dSum += l * powerBelow * spend[t - l]!;
+      powerBelow = power;
+      power *= alpha;
+    }
+    out[t] = (dSum * W - sum * dW) / (W * W);
+  }
+}
 
 describe("adstockGeometric", () => {
   it("matches the hand-worked normalised example", () => {
@@ -35,6 +62,63 @@ describe("adstockGeometric", () => {
         for (let t = 0; t < 60; t++) expect(fast[t]).toBeCloseTo(direct[t]!, 8);
       }
     }
+  });
+
+  it("agrees with the direct sums to 1e-12 on flighted spend, for α near 0 and near 1", () => {
+    const spend = flightedSpend(156);
+    const n = spend.length;
+    const fast = new Float64Array(n);
+    const dFast = new Float64Array(n);
+    const direct = new Float64Array(n);
+    const dDirect = new Float64Array(n);
+    for (const lag of [1, 2, 3, 8, 13, 52]) {
+      for (const alpha of [0, 1e-9, 1e-3, 0.3, 0.7, 0.95, 0.999, 1 - 1e-9]) {
+        adstockGeometricWithDerivative(spend, alpha, lag, fast, dFast);
+        adstockGeometricDirect(spend, alpha, lag, direct);
+        adstockDerivativeDirect(spend, alpha, lag, dDirect);
+        for (let t = 0; t < n; t++) {
+          let windowMax = 0;
+          for (let l = 0; l < lag && l <= t; l++) windowMax = Math.max(windowMax, spend[t - l]!);
+          if (windowMax === 0) continue;
+          // relative to the adstock itself; the derivative (which cancels for steady spend) relative to L·(largest spend in the window)
+          const error = direct[t] === 0 ? Math.abs(fast[t]!) / windowMax : Math.abs(fast[t]! - direct[t]!) / direct[t]!;
+          expect(error, `L ${lag}, α ${alpha}, week ${t}`).toBeLessThan(1e-12);
+          expect(Math.abs(dFast[t]! - dDirect[t]!) / (lag * windowMax), `derivative, L ${lag}, α ${alpha}, week ${t}`).toBeLessThan(1e-12);
+        }
+      }
+    }
+  });
+
+  it("is exactly 0, with its derivative, once the window holds no spend (as the direct sum)", () => {
+    const spend = flightedSpend(156);
+    const n = spend.length;
+    const out = new Float64Array(n);
+    const d = new Float64Array(n);
+    let emptyWeeks = 0;
+    for (const lag of [1, 2, 8]) {
+      for (const alpha of [0.3, 0.95, 1 - 1e-9]) {
+        adstockGeometricWithDerivative(spend, alpha, lag, out, d);
+        for (let t = 0; t < n; t++) {
+          let any = false;
+          for (let l = 0; l < lag && l <= t; l++) if (spend[t - l] !== 0) any = true;
+          if (any) continue;
+          emptyWeeks++;
+          expect(out[t], `L ${lag}, α ${alpha}, week ${t}`).toBe(0);
+          expect(d[t], `L ${lag}, α ${alpha}, week ${t}`).toBe(0);
+        }
+      }
+    }
+    expect(emptyWeeks).toBeGreaterThan(100);
+  });
+
+  it("lists the weeks where the window has just emptied (hand-worked)", () => {
+    // L = 2, spend 5 at week 0 and 3 at week 4: the window [t−1, t] empties at weeks 2 and 6
+    const weeks: number[] = [];
+    adstockEmptiedWeeks(new Float64Array([5, 0, 0, 0, 3, 0, 0, 0]), 0, 8, 2, weeks);
+    expect(weeks).toEqual([2, 6]);
+    const none: number[] = [];
+    adstockEmptiedWeeks(new Float64Array([0, 0, 7, 7, 7, 0]), 0, 6, 4, none);
+    expect(none).toEqual([]);
   });
 
   it("keeps a constant spend constant once the window is full", () => {
