@@ -68,6 +68,27 @@ describe("pooled portfolio density", () => {
     });
   }
 
+  it("equals the literal density with Hill shape below 1 at short lags (adstock exactly 0 where the window is empty)", () => {
+    // with k < 1, r(a) = θ·a^k/(a^k + θ^k) magnifies any rounding residue left where the adstock should be 0
+    for (const maxLag of [1, 2]) {
+      const data = smallPortfolio(true);
+      const model = buildPortfolioModel(data, { saturation: "hill", maxLag });
+      const at = (seed: number): Float64Array => {
+        const q = randomPoint(model, seed);
+        for (let c = 0; c < 3; c++) q[model.layout.hillShape + c] = -2 + 0.3 * c; // k = e^{u/2} ≈ 0.37 to 0.50
+        return q;
+      };
+      const q0 = at(3);
+      for (const seed of [4, 5, 6]) {
+        const q = at(seed);
+        const fast = model.logDensity(q) - model.logDensity(q0);
+        const literal = referenceLogDensity(model, data, q) - referenceLogDensity(model, data, q0);
+        expect(Math.abs(fast - literal) / Math.max(1, Math.abs(literal))).toBeLessThan(1e-10);
+      }
+      expectGradientMatchesFiniteDifferences(model, at(7));
+    }
+  });
+
   it("builds log β from μ, τ and z as specified", () => {
     const model = buildPortfolioModel(smallPortfolio(false));
     const q = randomPoint(model, 8);

@@ -1,12 +1,13 @@
 import type { DensityModel } from "../density-model";
 import type { RandomSource } from "../../rng/random-source";
-import { adstockGeometricUnchecked, adstockWeightSum, adstockWeightSumDerivative } from "../adstock";
+import { adstockEmptiedWeeks, adstockSumsUnchecked, adstockWeightSum, adstockWeightSumDerivative } from "../adstock";
 import { digamma, logGamma } from "../special-functions";
 import { betaPriorOnLogit, gammaPriorOnLog, halfNormalPriorOnLog, logistic } from "../priors";
 import type { PortfolioConstants } from "./portfolio-constants";
 import type { ParameterLayout } from "./parameter-layout";
 import type { ResolvedPortfolioOptions } from "./portfolio-options";
 import { GuidedChannelLevel } from "./guided-channel-level";
+import { addColumnDots, addColumns, exponentialSaturation, hillSaturation, lineAndColumnDotsThenCentre, setLineAndColumns } from "./density-kernels";
 import { portfolioParameterNames } from "./portfolio-names";
 
 const LOG_TWO = Math.LN2;
@@ -17,9 +18,11 @@ const TAU_PRIOR_SCALE = 0.5;
 /**
  * The log posterior density of the portfolio model (model.md) on the unconstrained
  * vector, with its hand-derived gradient. All buffers are allocated here, once; an
- * evaluation allocates nothing. Per evaluation the adstock is recomputed in one pass
- * per cell × channel (with its α-derivative) and one exponential is taken per
- * cell × channel × training week.
+ * evaluation allocates nothing. Per evaluation each cell × channel takes a pass over its
+ * training weeks for the adstock sums (with their α-derivative) and one for the saturation;
+ * a cell's media then enter its mean as columns beside the baseline, and the gradient reads
+ * them back in one pass per cell × channel (loops in density-kernels). The exponential
+ * form takes one exponential per cell × channel × training week.
  */
 export class PortfolioDensity implements DensityModel {
   readonly dimension: number;
@@ -67,15 +70,24 @@ export class PortfolioDensity implements DensityModel {
   private readonly marketS: Float64Array;
   private readonly marketP: Float64Array;
   private readonly gradDeltaMarket: Float64Array;
-  // per cell × channel × week media buffers (length C · totalWeeks)
-  private readonly adstock: Float64Array;
-  private readonly adstockDerivative: Float64Array;
-  private readonly response: Float64Array;
-  private readonly responseSlope: Float64Array;
-  private readonly responseThetaDerivative: Float64Array;
-  private readonly responseShapeDerivative: Float64Array;
-  /** Number of weeks of adstock needed per cell × channel (training weeks, or up to the last lift-test week). */
-  private readonly adstockLength: Int32Array;
+  /** Per cell × channel from emptiedStart: the training weeks where the adstock window has just emptied, then −1. */
+  private readonly emptiedWeeks: Int32Array;
+  private readonly emptiedStart: Int32Array;
+  /** Per channel, from α (W = Σ_{l<L} α^l): 1/W, W′/W² and W′/W. */
+  private readonly adstockInvWeight: Float64Array;
+  private readonly adstockDScale: Float64Array;
+  private readonly adstockWeightRatio: Float64Array;
+  // per cell × channel × training week, at mediaStart, what the media gradient reads (density-kernels):
+  // exponential e = exp(−a/θ) and the unnormalised adstock S with D = dS/dα; Hill p, q, q·(D/S − W′/W), q·log(a/θ)
+  private readonly expSlope: Float64Array;
+  private readonly adstockSum: Float64Array;
+  private readonly adstockSumDerivative: Float64Array;
+  private readonly hillP: Float64Array;
+  private readonly hillQ: Float64Array;
+  private readonly hillQAlpha: Float64Array;
+  private readonly hillQShape: Float64Array;
+  /** Per channel of the current cell: the weight of its media column (see logDensityGradient). */
+  private readonly mediaWeight: Float64Array;
   // per week buffers
   private readonly mean: Float64Array;
   private readonly rho: Float64Array;
@@ -130,20 +142,35 @@ export class PortfolioDensity implements DensityModel {
     this.guideMeanGrad = new Float64Array(G * C);
     this.guideShiftAlpha = new Float64Array(C);
     this.guideShiftLambda = new Float64Array(C);
-    this.adstock = new Float64Array(C * N);
-    this.adstockDerivative = new Float64Array(C * N);
-    this.response = new Float64Array(C * N);
-    this.responseSlope = new Float64Array(C * N);
-    this.responseThetaDerivative = new Float64Array(C * N);
-    this.responseShapeDerivative = new Float64Array(options.saturation === "hill" ? C * N : 0);
+    for (let g = 0; g < G; g++) {
+      for (let c = 0; c < C; c++) {
+        // the media columns of a cell are read as one block of C columns of its weeks
+        const at = constants.mediaStart[g * C]! + c * constants.weeks[g]!;
+        if (constants.mediaStart[g * C + c] !== at) throw new Error("media series must be stored channel after channel within a cell");
+      }
+    }
+    const emptied: number[] = [];
+    this.emptiedStart = new Int32Array(G * C);
+    for (let gc = 0; gc < G * C; gc++) {
+      this.emptiedStart[gc] = emptied.length;
+      adstockEmptiedWeeks(constants.spend, constants.mediaStart[gc]!, constants.trainWeeks[Math.floor(gc / C)]!, constants.maxLag, emptied);
+      emptied.push(-1);
+    }
+    this.emptiedWeeks = Int32Array.from(emptied);
+    this.adstockInvWeight = new Float64Array(C);
+    this.adstockDScale = new Float64Array(C);
+    this.adstockWeightRatio = new Float64Array(C);
+    const hill = options.saturation === "hill";
+    this.expSlope = new Float64Array(hill ? 0 : C * N);
+    this.adstockSum = new Float64Array(C * N);
+    this.adstockSumDerivative = new Float64Array(C * N);
+    this.mediaWeight = new Float64Array(C);
+    this.hillP = new Float64Array(hill ? C * N : 0);
+    this.hillQ = new Float64Array(hill ? C * N : 0);
+    this.hillQAlpha = new Float64Array(hill ? C * N : 0);
+    this.hillQShape = new Float64Array(hill ? C * N : 0);
     this.mean = new Float64Array(N);
     this.rho = new Float64Array(N);
-    this.adstockLength = new Int32Array(G * C);
-    for (let g = 0; g < G; g++) for (let c = 0; c < C; c++) this.adstockLength[g * C + c] = constants.trainWeeks[g]!;
-    for (const test of constants.liftTests) {
-      const gc = test.cell * C + test.channel;
-      this.adstockLength[gc] = Math.max(this.adstockLength[gc]!, test.lastWeek + 1);
-    }
   }
 
   /** Reads q into the channel-level values and the cell effects β, θ; returns the log prior of those blocks. */
@@ -257,56 +284,55 @@ export class PortfolioDensity implements DensityModel {
     return lp;
   }
 
-  /** Adstock, saturation and their derivatives for every active cell × channel; writes the media means. */
-  private computeMedia(withDerivatives: boolean): void {
+  /** Per channel constants of the adstock at the current α (see adstockGeometricUnchecked). */
+  private prepareAdstock(): void {
+    const C = this.constants.channelCount;
+    const L = this.constants.maxLag;
+    for (let c = 0; c < C; c++) {
+      const alpha = this.alpha[c]!;
+      const invWeightSum = 1 / adstockWeightSum(alpha, L);
+      const weightSumDerivative = adstockWeightSumDerivative(alpha, L);
+      this.adstockInvWeight[c] = invWeightSum;
+      this.adstockDScale[c] = weightSumDerivative * invWeightSum * invWeightSum;
+      this.adstockWeightRatio[c] = weightSumDerivative * invWeightSum;
+    }
+  }
+
+  /**
+   * The adstock and saturation of an active cell × channel over its training weeks (after
+   * prepareAdstock): writes the media gradient buffers and mediaMean, mean_t r(a[t]). Then
+   * `expSlope` (exponential, r = θ(1 − e)) or `hillP` (Hill, r = θp) holds the regressor in
+   * the cell's block of C columns from mediaStart[g·C], read as columns by logDensityGradient.
+   */
+  private mediaPass(g: number, c: number): void {
+    const k = this.constants;
+    const gc = g * k.channelCount + c;
+    const theta = this.theta[gc]!;
+    const kappa = this.adstockInvWeight[c]! / theta;
+    const train = k.trainWeeks[g]!;
+    const ms = k.mediaStart[gc]!;
+    adstockSumsUnchecked(k.spend, ms, train, this.alpha[c]!, k.maxLag, this.adstockSum, this.adstockSumDerivative, ms, this.emptiedWeeks, this.emptiedStart[gc]!);
+    if (this.options.saturation === "hill") {
+      const sumP = hillSaturation(
+        this.adstockSum, this.adstockSumDerivative, ms, train, kappa, this.adstockInvWeight[c]!, this.adstockDScale[c]!,
+        this.adstockWeightRatio[c]!, theta, this.hillShape[c]!, this.hillP, this.hillQ, this.hillQAlpha, this.hillQShape,
+      );
+      this.mediaMean[gc] = (theta * sumP) / train;
+    } else {
+      this.mediaMean[gc] = (theta * exponentialSaturation(this.adstockSum, ms, train, kappa, this.expSlope)) / train;
+    }
+  }
+
+  /** The media means mean_t r(a[t]) of every cell × channel at the current α, θ and Hill shape. */
+  private computeMedia(): void {
     const k = this.constants;
     const C = k.channelCount;
-    const G = k.cellCount;
-    const L = k.maxLag;
-    const hill = this.options.saturation === "hill";
-    const adstock = this.adstock;
-    const dAdstock = this.adstockDerivative;
-    const response = this.response;
-    const slope = this.responseSlope;
-    const dTheta = this.responseThetaDerivative;
-    const dShape = this.responseShapeDerivative;
-    const hs = this.hillScratch;
-    for (let g = 0; g < G; g++) {
-      const train = k.trainWeeks[g]!;
+    this.prepareAdstock();
+    for (let g = 0; g < k.cellCount; g++) {
       for (let c = 0; c < C; c++) {
         const gc = g * C + c;
-        if (k.channelActive[gc] === 0) {
-          this.mediaMean[gc] = 0;
-          continue;
-        }
-        const start = k.mediaStart[gc]!;
-        const length = this.adstockLength[gc]!;
-        adstockGeometricUnchecked(k.spend, length, this.alpha[c]!, L, adstock, withDerivatives ? dAdstock : undefined, start);
-        const theta = this.theta[gc]!;
-        let sum = 0;
-        if (!hill) {
-          const invTheta = 1 / theta;
-          for (let i = start, end = start + train; i < end; i++) {
-            const ratio = adstock[i]! * invTheta;
-            const e = Math.exp(-ratio);
-            const r = theta * (1 - e);
-            response[i] = r;
-            slope[i] = e;
-            dTheta[i] = 1 - e - ratio * e;
-            sum += r;
-          }
-        } else {
-          const shape = this.hillShape[c]!;
-          for (let i = start, end = start + train; i < end; i++) {
-            hillWithDerivatives(adstock[i]!, theta, shape, hs);
-            response[i] = hs[0]!;
-            slope[i] = hs[1]!;
-            dTheta[i] = hs[2]!;
-            dShape[i] = hs[3]!;
-            sum += hs[0]!;
-          }
-        }
-        this.mediaMean[gc] = sum / train;
+        if (k.channelActive[gc] === 0) this.mediaMean[gc] = 0;
+        else this.mediaPass(g, c);
       }
     }
   }
@@ -321,7 +347,7 @@ export class PortfolioDensity implements DensityModel {
     const K = k.controlCount;
     let lp = this.readChannelBlocks(q, grad);
     const hill = lay.hillShape >= 0;
-    if (hill) this.computeMedia(true);
+    this.prepareAdstock();
     this.gradLogBeta.fill(0);
     this.gradLogTheta.fill(0);
     this.gradAlpha.fill(0);
@@ -343,17 +369,12 @@ export class PortfolioDensity implements DensityModel {
 
     const mean = this.mean;
     const rho = this.rho;
-    const response = this.response;
-    const slope = this.responseSlope;
-    const dTheta = this.responseThetaDerivative;
-    const dShape = this.responseShapeDerivative;
-    const dAdstock = this.adstockDerivative;
-    const adstock = this.adstock;
-    const L = k.maxLag;
     const seasonal = k.seasonal;
     const trend = k.trend;
     const controlDesign = k.controlDesign;
     const outcome = k.outcome;
+    const mediaColumns = hill ? this.hillP : this.expSlope;
+    const mediaWeight = this.mediaWeight;
     for (let g = 0; g < G; g++) {
       const T = k.weeks[g]!;
       const train = k.trainWeeks[g]!;
@@ -367,43 +388,31 @@ export class PortfolioDensity implements DensityModel {
       lp -= 0.5 * (u0 * u0 + u1 * u1);
       grad[block] = -u0;
       grad[block + 1] = -u1;
-      // media first, mean[t] = Σ_c β·r(a[t]); the centring Σ_c β·mean(r) is folded into the intercept
-      for (let t = 0; t < train; t++) mean[start + t] = 0;
-      let mediaShift = 0;
+      // mean[t] = β0 + β1·ť + seasonality + controls + Σ_c β·(r(a[t]) − mean(r)), with the media
+      // as columns of e (β·r = βθ − βθ·e) or p (β·r = βθ·p) and their constant parts in the intercept
+      const sBase = k.seasonalStart[g]!;
+      let intercept = beta0;
       for (let c = 0; c < C; c++) {
         const gc = g * C + c;
+        mediaWeight[c] = 0;
         if (k.channelActive[gc] === 0) continue;
+        this.mediaPass(g, c);
         const b = this.beta[gc]!;
-        const ms = k.mediaStart[gc]!;
-        if (!hill) {
-          // exponential saturation fused here: one exp per cell × channel × week
-          adstockGeometricUnchecked(k.spend, this.adstockLength[gc]!, this.alpha[c]!, L, adstock, dAdstock, ms);
-          const theta = this.theta[gc]!;
-          const invTheta = 1 / theta;
-          let sum = 0;
-          for (let t = 0; t < train; t++) {
-            const e = Math.exp(-adstock[ms + t]! * invTheta);
-            slope[ms + t] = e;
-            const r = theta - theta * e;
-            sum += r;
-            mean[start + t] = mean[start + t]! + b * r;
-          }
-          this.mediaMean[gc] = sum / train;
+        const bTheta = b * this.theta[gc]!;
+        if (hill) {
+          intercept -= b * this.mediaMean[gc]!;
+          mediaWeight[c] = bTheta;
         } else {
-          for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + b * response[ms + t]!;
+          intercept += bTheta - b * this.mediaMean[gc]!;
+          mediaWeight[c] = -bTheta;
         }
-        mediaShift += b * this.mediaMean[gc]!;
       }
-      const intercept = beta0 - mediaShift;
-      for (let t = 0; t < train; t++) mean[start + t] = mean[start + t]! + intercept + beta1 * trend[start + t]!;
-      const sBase = k.seasonalStart[g]!;
+      const mediaBase = k.mediaStart[g * C]!;
+      setLineAndColumns(mean, start, intercept, beta1, trend, start, seasonal, sBase, T, q, block + 2, 0.5 * scale, 2 * J, train);
       for (let j = 0; j < 2 * J; j++) {
         const u = q[block + 2 + j]!;
         lp -= 0.5 * u * u;
         grad[block + 2 + j] = -u;
-        const coef = 0.5 * scale * u;
-        const col = sBase + j * T;
-        addScaled(mean, start, seasonal, col, coef, train);
       }
       const logSigmaIndex = block + 2 + 2 * J;
       const vSigma = q[logSigmaIndex]!;
@@ -417,10 +426,9 @@ export class PortfolioDensity implements DensityModel {
         const u = q[logSigmaIndex + 1 + j]!;
         lp -= 0.5 * u * u;
         grad[logSigmaIndex + 1 + j] = -u;
-        const coef = scale * u;
-        const col = cBase + j * T;
-        addScaled(mean, start, controlDesign, col, coef, train);
       }
+      addColumns(mean, start, controlDesign, cBase, T, q, logSigmaIndex + 1, scale, K, train);
+      addColumns(mean, start, mediaColumns, mediaBase, T, mediaWeight, 0, 1, C, train);
 
       // likelihood over the training weeks
       let sumRho = 0;
@@ -439,78 +447,91 @@ export class PortfolioDensity implements DensityModel {
         lp += -train * Math.log(sigma) - 0.5 * sumSq * invVar;
         gradV = -train + sumSq * invVar;
       } else {
+        // ρ = (ν+1)·z/(σ·(ν + z²)); d/dv and d/dν of the week's term use w = z²/(ν + z²)
+        const nuPlusOne = nu + 1;
+        const invNu = 1 / nu;
         let sumLog = 0;
+        let sumW = 0;
         for (let t = 0; t < train; t++) {
           const e = outcome[start + t]! - mean[start + t]!;
           const z = e * invSigma;
           const z2 = z * z;
-          const denom = nu + z2;
-          sumLog += Math.log1p(z2 / nu);
-          const r = ((nu + 1) * z * invSigma) / denom;
+          const invDenom = 1 / (nu + z2);
+          sumLog += Math.log1p(z2 * invNu);
+          const r = nuPlusOne * z * invSigma * invDenom;
           rho[start + t] = r;
           sumRho += r;
-          gradV += ((nu + 1) * z2) / denom - 1;
-          gradNu += (0.5 * (nu + 1) * z2) / (nu * denom);
+          sumW += z2 * invDenom;
         }
-        lp += train * (nuConstant - Math.log(sigma)) - 0.5 * (nu + 1) * sumLog;
-        gradNu -= 0.5 * sumLog;
+        lp += train * (nuConstant - Math.log(sigma)) - 0.5 * nuPlusOne * sumLog;
+        gradV = nuPlusOne * sumW - train;
+        gradNu += 0.5 * nuPlusOne * invNu * sumW - 0.5 * sumLog;
         weeksInLikelihood += train;
       }
       grad[logSigmaIndex] = grad[logSigmaIndex]! + gradV;
       const rhoMean = sumRho / train;
 
-      // baseline coefficients
-      const gTrend = dot(rho, start, trend, start, train);
+      // baseline coefficients; then ρ is replaced by φ = ρ − ρ̄ for the media
       grad[block] = grad[block]! + scale * sumRho;
-      grad[block + 1] = grad[block + 1]! + scale * gTrend;
-      for (let j = 0; j < 2 * J; j++) {
-        const col = sBase + j * T;
-        grad[block + 2 + j] = grad[block + 2 + j]! + 0.5 * scale * dot(rho, start, seasonal, col, train);
-      }
-      for (let j = 0; j < K; j++) {
-        const col = cBase + j * T;
-        grad[logSigmaIndex + 1 + j] = grad[logSigmaIndex + 1 + j]! + scale * dot(rho, start, controlDesign, col, train);
-      }
+      addColumnDots(rho, start, controlDesign, cBase, T, K, train, scale, grad, logSigmaIndex + 1);
+      const sPhi = lineAndColumnDotsThenCentre(rho, start, rhoMean, trend, start, scale, seasonal, sBase, T, 0.5 * scale, 2 * J, train, grad, block + 1, block + 2);
 
-      // media: d/dr[t] = β (ρ[t] − ρ̄) because r̃ = r − mean(r)
+      // media: d/dr[t] = β·φ[t] because r̃ = r − mean(r)
       for (let c = 0; c < C; c++) {
         const gc = g * C + c;
         if (k.channelActive[gc] === 0) continue;
         const ms = k.mediaStart[gc]!;
-        let sR = 0;
-        let sTheta = 0;
-        let sAlpha = 0;
+        const theta = this.theta[gc]!;
+        let sR: number;
+        let sTheta: number;
+        let sAlpha: number;
         let sShape = 0;
         if (!hill) {
-          // r = θ(1 − e), dr/dθ = 1 − e − (a/θ)e, dr/da = e, with e = exp(−a/θ)
-          const theta = this.theta[gc]!;
-          let sPhi = 0;
+          // r = θ(1 − e), dr/dθ = 1 − e − (a/θ)e, dr/da = e, with e = exp(−a/θ), a = S/W, da/dα = D/W − S·W′/W²
+          const e = this.expSlope;
+          const S = this.adstockSum;
+          const D = this.adstockSumDerivative;
           let sE = 0;
-          let sAE = 0;
+          let sES = 0;
+          let sED = 0;
           for (let t = 0; t < train; t++) {
-            const phi = rho[start + t]! - rhoMean;
             const i = ms + t;
-            const pe = phi * slope[i]!;
-            sPhi += phi;
+            const pe = rho[start + t]! * e[i]!;
             sE += pe;
-            sAE += pe * adstock[i]!;
-            sAlpha += pe * dAdstock[i]!;
+            sES += pe * S[i]!;
+            sED += pe * D[i]!;
           }
+          const invW = this.adstockInvWeight[c]!;
           sR = theta * (sPhi - sE);
-          sTheta = sPhi - sE - sAE / theta;
+          sTheta = sPhi - sE - (sES * invW) / theta;
+          sAlpha = sED * invW - sES * this.adstockDScale[c]!;
         } else {
+          // r = θp, dr/dθ = p − kq, dr/dk = θ·q·log(a/θ), (dr/da)·(da/dα) = kθ·q·(D/S − W′/W)
+          const P = this.hillP;
+          const Q = this.hillQ;
+          const QA = this.hillQAlpha;
+          const QK = this.hillQShape;
+          const shape = this.hillShape[c]!;
+          let sP = 0;
+          let sQ = 0;
+          let sQA = 0;
+          let sQK = 0;
           for (let t = 0; t < train; t++) {
-            const phi = rho[start + t]! - rhoMean;
             const i = ms + t;
-            sR += phi * response[i]!;
-            sTheta += phi * dTheta[i]!;
-            sAlpha += phi * slope[i]! * dAdstock[i]!;
-            sShape += phi * dShape[i]!;
+            const phi = rho[start + t]!;
+            sP += phi * P[i]!;
+            sQ += phi * Q[i]!;
+            sQA += phi * QA[i]!;
+            sQK += phi * QK[i]!;
           }
+          sR = theta * sP;
+          sTheta = sP - shape * sQ;
+          sAlpha = shape * theta * sQA;
+          sShape = theta * sQK;
         }
         const b = this.beta[gc]!;
         this.gradLogBeta[gc] = this.gradLogBeta[gc]! + b * sR;
-        this.gradLogTheta[gc] = this.gradLogTheta[gc]! + b * sTheta * this.theta[gc]!;
+        this.gradLogTheta[gc] = this.gradLogTheta[gc]! + b * sTheta * theta;
         this.gradAlpha[c] = this.gradAlpha[c]! + b * sAlpha;
         if (hill) this.gradLogShape[c] = this.gradLogShape[c]! + b * sShape * this.hillShape[c]!;
       }
@@ -676,24 +697,32 @@ export class PortfolioDensity implements DensityModel {
       let sumAlpha = 0;
       let sumShape = 0;
       for (let t = test.firstWeek; t <= test.lastWeek; t++) {
-        // window-only adstock b[t] and its α-derivative
-        let windowAdstock = 0;
-        let dWindow = 0;
+        // the adstock a[t] as direct sums over the spend inside the window and before it
+        // (a0 = a − b, the adstock without the window's spend), with their α-derivatives
+        let inside = 0;
+        let dInside = 0;
+        let before = 0;
+        let dBefore = 0;
         let power = 1;
         let powerBelow = 0; // α^{l−1}
-        for (let l = 0; l < L && t - l >= test.firstWeek; l++) {
+        for (let l = 0; l < L && t - l >= 0; l++) {
           const x = k.spend[ms + t - l]!;
-          windowAdstock += power * x;
-          dWindow += (l * powerBelow * W - power * dW) * x;
+          const v = power * x;
+          const dv = (l * powerBelow * W - power * dW) * x;
+          if (t - l >= test.firstWeek) {
+            inside += v;
+            dInside += dv;
+          } else {
+            before += v;
+            dBefore += dv;
+          }
           powerBelow = power;
           power *= alpha;
         }
-        windowAdstock /= W;
-        dWindow /= W * W;
-        const a = this.adstock[ms + t]!;
-        const da = this.adstockDerivative[ms + t]!;
-        const a0 = a - windowAdstock;
-        const da0 = da - dWindow;
+        const a = (inside + before) / W;
+        const da = (dInside + dBefore) / (W * W);
+        const a0 = before / W;
+        const da0 = dBefore / (W * W);
         if (!hill) {
           const e = Math.exp(-a / theta);
           const e0 = Math.exp(-a0 / theta);
@@ -734,7 +763,7 @@ export class PortfolioDensity implements DensityModel {
   /** Per-cell media means mean_t r(a[t]) at q (the centring of the media regressors). */
   mediaMeansAt(q: Float64Array, out: Float64Array): void {
     this.readChannelBlocks(q, undefined);
-    this.computeMedia(false);
+    this.computeMedia();
     out.set(this.mediaMean);
   }
 
@@ -773,7 +802,7 @@ export class PortfolioDensity implements DensityModel {
     readonly deltaMarket: Float64Array;
   } {
     this.readChannelBlocks(q, undefined);
-    this.computeMedia(false);
+    this.computeMedia();
     return {
       mu: this.mu,
       tauBrand: this.tauBrand,
@@ -796,18 +825,6 @@ export class PortfolioDensity implements DensityModel {
     const scratch = new Float64Array(this.dimension);
     return this.logDensityGradient(q, scratch);
   }
-}
-
-/** y[yAt + t] += coef · x[xAt + t] for t < n. */
-function addScaled(y: Float64Array, yAt: number, x: Float64Array, xAt: number, coef: number, n: number): void {
-  for (let t = 0; t < n; t++) y[yAt + t] = y[yAt + t]! + coef * x[xAt + t]!;
-}
-
-/** Σ_t a[aAt + t] · b[bAt + t] for t < n. */
-function dot(a: Float64Array, aAt: number, b: Float64Array, bAt: number, n: number): number {
-  let s = 0;
-  for (let t = 0; t < n; t++) s += a[aAt + t]! * b[bAt + t]!;
-  return s;
 }
 
 /** Hill form r = θ·u/(1+u), u = (a/θ)^k: writes [r, dr/da, dr/dθ, dr/dk]. */
