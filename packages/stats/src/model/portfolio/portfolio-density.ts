@@ -2,6 +2,7 @@ import type { DensityModel } from "../density-model";
 import type { RandomSource } from "../../rng/random-source";
 import { adstockEmptiedWeeks, adstockSumsUnchecked, adstockWeightSum, adstockWeightSumDerivative } from "../adstock";
 import { digamma, logGamma } from "../special-functions";
+import { saturationHillWithDerivatives } from "../saturation";
 import { betaPriorOnLogit, gammaPriorOnLog, halfNormalPriorOnLog, logistic } from "../priors";
 import type { PortfolioConstants } from "./portfolio-constants";
 import type { ParameterLayout } from "./parameter-layout";
@@ -730,12 +731,12 @@ export class PortfolioDensity implements DensityModel {
           sumTheta += 1 - e - (a / theta) * e - (1 - e0 - (a0 / theta) * e0);
           sumAlpha += e * da - e0 * da0;
         } else {
-          hillWithDerivatives(a, theta, shape, hs);
+          saturationHillWithDerivatives(a, theta, shape, hs);
           const r = hs[0]!;
           const ra = hs[1]!;
           const rt = hs[2]!;
           const rk = hs[3]!;
-          hillWithDerivatives(a0, theta, shape, hs);
+          saturationHillWithDerivatives(a0, theta, shape, hs);
           sumR += r - hs[0]!;
           sumTheta += rt - hs[2]!;
           sumAlpha += ra * da - hs[1]! * da0;
@@ -825,26 +826,6 @@ export class PortfolioDensity implements DensityModel {
     const scratch = new Float64Array(this.dimension);
     return this.logDensityGradient(q, scratch);
   }
-}
-
-/** Hill form r = θ·u/(1+u), u = (a/θ)^k: writes [r, dr/da, dr/dθ, dr/dk]. */
-function hillWithDerivatives(a: number, theta: number, shape: number, out: Float64Array): void {
-  if (a <= 0) {
-    out[0] = 0;
-    out[1] = shape === 1 ? 1 : 0;
-    out[2] = 0;
-    out[3] = 0;
-    return;
-  }
-  const ratio = a / theta;
-  const logRatio = Math.log(ratio);
-  const u = Math.exp(shape * logRatio);
-  const onePlusU = 1 + u;
-  const inv2 = 1 / (onePlusU * onePlusU);
-  out[0] = (theta * u) / onePlusU;
-  out[1] = (shape * u * inv2) / ratio;
-  out[2] = u / onePlusU - shape * u * inv2;
-  out[3] = theta * u * logRatio * inv2;
 }
 
 /** Writes the constrained quantities in the order of `portfolioParameterNames`. */
