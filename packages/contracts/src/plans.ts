@@ -49,7 +49,7 @@ const planName = z
   .string("Give the plan a name")
   .trim()
   .min(1, "Give the plan a name")
-  .max(planBounds.name.max, `Keep the name under ${planBounds.name.max} characters`);
+  .max(planBounds.name.max, `Keep the name to ${planBounds.name.max} characters or fewer`);
 const planNote = z.string().trim().max(planBounds.note.max, `Keep the note under ${planBounds.note.max} characters`);
 const cellIdList = z
   .array(z.string().min(1), "Choose the cells (brand × market) of the plan")
@@ -342,7 +342,7 @@ const planBase = {
   submitted: z.object({ by: userRefSchema.nullable(), at: z.string() }).nullable(),
   decision: z.object({ by: userRefSchema.nullable(), at: z.string(), comment: z.string().nullable() }).nullable(),
   /** What the viewer may do with the plan now. */
-  can: z.object({ edit: z.boolean(), delete: z.boolean(), submit: z.boolean(), withdraw: z.boolean(), decide: z.boolean() }),
+  can: z.object({ edit: z.boolean(), rename: z.boolean(), delete: z.boolean(), submit: z.boolean(), withdraw: z.boolean(), decide: z.boolean() }),
   /** Shown beside every allocation or forecast. */
   caution: z.string(),
 };

@@ -89,6 +89,8 @@ export function permissions(row: Pick<PlanRow, "kind" | "status" | "createdBy">,
   const open = row.status === "draft" || row.status === "rejected";
   return {
     edit: (own || admin) && mayAuthor && open,
+    /** A new name or note changes no number, so it is open at any status (the audit log keeps old → new). */
+    rename: own || admin,
     delete: admin || (own && open),
     submit: row.kind === "budget_split" && row.status === "draft" && (own || admin) && mayAuthor,
     withdraw: row.kind === "budget_split" && row.status === "submitted" && (own || admin),

@@ -7,6 +7,7 @@ import type {
   BudgetSplitDetail,
   CurrentUser,
   PlanDecisionInput,
+  PlanRenameInput,
   ScenarioDetail,
   budgetSplitPlanInput,
   scenarioPlanInput,
@@ -18,7 +19,7 @@ import type { AppConfig } from "../config";
 import type { Database, Queryable } from "../db/client";
 import { auditLog, markets, plans, users, workspaceSettings } from "../db/schema";
 import { safeErrorForLog } from "../http/error-handler";
-import { Conflict, Forbidden, Invalid } from "../http/errors";
+import { Conflict, Forbidden, Invalid, NotFound } from "../http/errors";
 import type { Mailer } from "../mail/mailer";
 import { appBaseUrl, planDecidedMessage, planSubmittedMessage, type PlanMailFacts } from "../mail/messages";
 import { currentRunId } from "../runs/run-queries";
@@ -153,15 +154,36 @@ function editRefusal(row: PlanRow, user: CurrentUser): Error {
   return new Forbidden("Only the plan's author or an admin can change it");
 }
 
-export async function renamePlan(db: Database, user: CurrentUser, row: PlanRow, change: { name?: string; note?: string | null }): Promise<PlanRow> {
-  if (row.createdBy !== user.id && user.role !== "admin") throw new Forbidden("Only the plan's author or an admin can rename it");
-  const body = bodyOf(row);
-  const [updated] = await db
-    .update(plans)
-    .set({ name: change.name ?? row.name, body: { ...body, note: change.note === undefined ? body.note : change.note }, updatedAt: new Date() })
-    .where(eq(plans.id, row.id))
-    .returning();
-  return updated!;
+/** The audit log's actions for a plan's name and note (what `PATCH /api/plans/:planId` changes). */
+export const planRenameActions = { name: "plan_renamed", note: "plan_note_changed" } as const;
+
+/**
+ * A new name and/or note, at any status: the numbers and the approval stay as they are.
+ * One audit entry per changed value (who, old → new name); a change that changes nothing writes nothing.
+ */
+export async function renamePlan(db: Database, user: CurrentUser, row: PlanRow, change: PlanRenameInput): Promise<PlanRow> {
+  if (!permissions(row, user).rename) throw new Forbidden("Only the plan's author or an admin can rename it or change its note");
+  return db.transaction(async (tx) => {
+    // Read again inside the transaction, so old → new in the audit log is what was replaced.
+    const [current] = await tx.select().from(plans).where(eq(plans.id, row.id)).for("update");
+    if (!current) throw new NotFound("No such plan");
+    const body = bodyOf(current);
+    const name = change.name ?? current.name;
+    const note = change.note === undefined ? body.note : change.note === "" ? null : change.note;
+    if (name === current.name && note === body.note) return current;
+    const [updated] = await tx
+      .update(plans)
+      .set({ name, body: { ...body, note }, updatedAt: new Date() })
+      .where(eq(plans.id, row.id))
+      .returning();
+    if (name !== current.name) {
+      await tx.insert(auditLog).values({ userId: user.id, action: planRenameActions.name, target: `plan:${row.id}`, details: { kind: current.kind, from: current.name, to: name } });
+    }
+    if (note !== body.note) {
+      await tx.insert(auditLog).values({ userId: user.id, action: planRenameActions.note, target: `plan:${row.id}`, details: { kind: current.kind, name, hadNote: body.note !== null, hasNote: note !== null } });
+    }
+    return updated!;
+  });
 }
 
 export async function deletePlan(db: Database, user: CurrentUser, row: PlanRow): Promise<void> {

@@ -9,6 +9,7 @@ import {
   decodeDrawSet,
   drawSetWireSchema,
   modelCaution,
+  planBounds,
   planSchema,
   planSummarySchema,
   type BudgetSplitPlanInput,
@@ -192,6 +193,103 @@ describe("scenarios", () => {
   });
 });
 
+/** The split as the browser computes it, on the lead's full draw set. */
+async function splitInput(agent: Agent, name: string, cellIds = [kv(), pv()]): Promise<BudgetSplitPlanInput> {
+  const set = await drawSetAs(agent);
+  const refs = cellIds.map((id) => set.cells.find((c) => c.cellId === id)!);
+  const inputs = { totalBudget: 250_000, horizon: 8, recentWeeks: 8, bounds: [{ target: { channels: ["search"] }, lower: 40_000 }], objective: { kind: "customers" as const } };
+  const result = budgetSplit(set, { ...inputs, cells: refs.map((c) => ({ brand: c.brand, market: c.market })) });
+  return {
+    name,
+    runId,
+    cellIds,
+    ...inputs,
+    allocation: result.lines.map((line) => ({ cellId: refs.find((c) => c.brand === line.brand && c.market === line.market)!.cellId, channel: line.channel, amount: line.allocation })),
+  };
+}
+
+describe("renaming a saved plan", () => {
+  let plan: Plan;
+  beforeAll(async () => {
+    plan = planSchema.parse((await veltria.post("/api/plans/scenarios").send(scenarioInput([kv(), pv()], "Veltria search push")).expect(201)).body);
+  });
+  const stored = async () => (await t.db.select().from(plans).where(eq(plans.id, plan.id)))[0]!;
+  const entries = async () => (await t.db.select().from(auditLog).where(eq(auditLog.target, `plan:${plan.id}`))).filter((a) => a.action !== "plan_created");
+
+  it("renames by the author (name tidied at the ends), keeps the numbers, and writes one audit entry with old and new", async () => {
+    expect(plan.can.rename).toBe(true);
+    const before = await stored();
+    const renamed = planSchema.parse((await veltria.patch(`/api/plans/${plan.id}`).send({ name: "  Veltria search, Q3  " }).expect(200)).body);
+    expect(renamed.name).toBe("Veltria search, Q3");
+    expect(renamed.note).toBeNull();
+    expect(renamed.status).toBe("draft");
+    const after = await stored();
+    expect(after.body).toEqual(before.body);
+    expect(after.runId).toBe(before.runId);
+    expect(after.updatedAt.getTime()).toBeGreaterThanOrEqual(before.updatedAt.getTime());
+    const audit = await entries();
+    expect(audit).toHaveLength(1);
+    expect(audit[0]).toMatchObject({ action: "plan_renamed", details: { kind: "scenario", from: "Veltria search push", to: "Veltria search, Q3" } });
+    expect(audit[0]!.userId).toBe(renamed.createdBy!.id);
+    // The list shows the new name.
+    const list = planSummarySchema.array().parse((await veltria.get("/api/plans?kind=scenario").expect(200)).body);
+    expect(list.find((p) => p.id === plan.id)!.name).toBe("Veltria search, Q3");
+  });
+
+  it("writes nothing for a rename to the same name, and a separate entry for a note", async () => {
+    const count = (await entries()).length;
+    const before = await stored();
+    const same = planSchema.parse((await veltria.patch(`/api/plans/${plan.id}`).send({ name: " Veltria search, Q3 " }).expect(200)).body);
+    expect(same.name).toBe("Veltria search, Q3");
+    expect((await stored()).updatedAt).toEqual(before.updatedAt);
+    expect((await entries()).length).toBe(count);
+    planSchema.parse((await veltria.patch(`/api/plans/${plan.id}`).send({ note: "For the autumn review" }).expect(200)).body);
+    const audit = await entries();
+    expect(audit.map((a) => a.action).slice(count)).toEqual(["plan_note_changed"]);
+    // An empty note clears it.
+    expect(planSchema.parse((await veltria.patch(`/api/plans/${plan.id}`).send({ note: "" }).expect(200)).body).note).toBeNull();
+  });
+
+  it("refuses a blank name, one over the limit and an empty request with clear messages; nothing changes", async () => {
+    const before = await stored();
+    const count = (await entries()).length;
+    const blank = await veltria.patch(`/api/plans/${plan.id}`).send({ name: "   " }).expect(400);
+    expect(blank.body.error.issues).toEqual([expect.objectContaining({ path: "name", message: "Give the plan a name" })]);
+    const long = await veltria.patch(`/api/plans/${plan.id}`).send({ name: "x".repeat(planBounds.name.max + 1) }).expect(400);
+    expect(long.body.error.issues).toEqual([expect.objectContaining({ path: "name", message: `Keep the name to ${planBounds.name.max} characters or fewer` })]);
+    await veltria.patch(`/api/plans/${plan.id}`).send({ name: "x".repeat(planBounds.name.max) }).expect(200);
+    await veltria.patch(`/api/plans/${plan.id}`).send({ name: before.name }).expect(200);
+    const wrongType = await veltria.patch(`/api/plans/${plan.id}`).send({ name: 42 }).expect(400);
+    expect(wrongType.body.error.issues[0].message).toBe("Give the plan a name");
+    const empty = await veltria.patch(`/api/plans/${plan.id}`).send({}).expect(400);
+    expect(empty.body.error.issues[0].message).toBe("Send a new name or note");
+    expect((await stored()).name).toBe(before.name);
+    // The 120-character name and the rename back: two entries, the refusals none.
+    expect((await entries()).length).toBe(count + 2);
+  });
+
+  it("is for the author and admins only: others of every role are refused and nothing changes", async () => {
+    const before = await stored();
+    const count = (await entries()).length;
+    for (const other of [analyst, lead]) {
+      const refused = await other.patch(`/api/plans/${plan.id}`).send({ name: "Not theirs" }).expect(403);
+      expect(refused.body.error.message).toBe("Only the plan's author or an admin can rename it or change its note");
+      expect(planSchema.parse((await other.get(`/api/plans/${plan.id}`).expect(200)).body).can.rename).toBe(false);
+    }
+    // A manager of other markets does not see the plan at all.
+    await south.patch(`/api/plans/${plan.id}`).send({ name: "Not theirs" }).expect(404);
+    expect((await stored()).name).toBe(before.name);
+    expect((await entries()).length).toBe(count);
+    // An admin may rename anyone's plan; the entry names the admin.
+    expect(planSchema.parse((await admin.get(`/api/plans/${plan.id}`).expect(200)).body).can.rename).toBe(true);
+    expect(planSchema.parse((await admin.patch(`/api/plans/${plan.id}`).send({ name: "Veltria search (admin)" }).expect(200)).body).name).toBe("Veltria search (admin)");
+    const last = (await entries()).at(-1)!;
+    expect(last).toMatchObject({ action: "plan_renamed", details: { from: before.name, to: "Veltria search (admin)" } });
+    expect(last.userId).not.toBe(before.createdBy);
+    await admin.patch(`/api/plans/no-such-plan`).send({ name: "Anything" }).expect(404);
+  });
+});
+
 describe("CSV of any text", () => {
   it("neutralises what a spreadsheet would run as a formula", () => {
     const csv = toCsv(["name", "value"], [["=HYPERLINK(\"x\")", 1], ["+cmd", -2], ["-1+1", 3], ["@SUM(A1)", 4], ["\tx", 5], ["\rx", 6], ["plain", 7]]);
@@ -203,21 +301,6 @@ describe("CSV of any text", () => {
 });
 
 describe("budget splits", () => {
-  /** The split as the browser computes it, on the lead's full draw set. */
-  async function splitInput(agent: Agent, name: string, cellIds = [kv(), pv()]): Promise<BudgetSplitPlanInput> {
-    const set = await drawSetAs(agent);
-    const refs = cellIds.map((id) => set.cells.find((c) => c.cellId === id)!);
-    const inputs = { totalBudget: 250_000, horizon: 8, recentWeeks: 8, bounds: [{ target: { channels: ["search"] }, lower: 40_000 }], objective: { kind: "customers" as const } };
-    const result = budgetSplit(set, { ...inputs, cells: refs.map((c) => ({ brand: c.brand, market: c.market })) });
-    return {
-      name,
-      runId,
-      cellIds,
-      ...inputs,
-      allocation: result.lines.map((line) => ({ cellId: refs.find((c) => c.brand === line.brand && c.market === line.market)!.cellId, channel: line.channel, amount: line.allocation })),
-    };
-  }
-
   it("stores a split whose allocation the server computes the same way", async () => {
     const input = await splitInput(lead, "Veltria Q3");
     const plan = planSchema.parse((await analyst.post("/api/plans/budget-splits").send(input).expect(201)).body);
@@ -300,6 +383,17 @@ describe("budget splits", () => {
       expect(mail[0]!.text).toContain("Go ahead; plan a lift test on social.");
       const audit = await t.db.select().from(auditLog).where(eq(auditLog.target, `plan:${split.id}`));
       expect(audit.map((a) => a.action)).toEqual(["plan_created", "plan_submitted", "plan_approved"]);
+    });
+
+    it("is renamed by its author after approval, since a name changes no number; the approval stays", async () => {
+      // The lead decided on it, but only the author or an admin renames it.
+      await lead.patch(`/api/plans/${split.id}`).send({ name: "Lead's name" }).expect(403);
+      await veltria.patch(`/api/plans/${split.id}`).send({ name: "Manager's name" }).expect(403);
+      const renamed = planSchema.parse((await analyst.patch(`/api/plans/${split.id}`).send({ name: "For approval (approved)" }).expect(200)).body);
+      expect(renamed).toMatchObject({ name: "For approval (approved)", status: "approved", decision: { by: { name: demoUsers.portfolioLead.name } } });
+      const audit = await t.db.select().from(auditLog).where(eq(auditLog.target, `plan:${split.id}`));
+      expect(audit.map((a) => a.action)).toEqual(["plan_created", "plan_submitted", "plan_approved", "plan_renamed"]);
+      expect(audit.at(-1)!.details).toEqual({ kind: "budget_split", from: "For approval", to: "For approval (approved)" });
     });
 
     it("lets a rejected split be changed (back to draft) and withdrawn after a new submission; nobody decides on their own split", async () => {

@@ -15,6 +15,7 @@ import { Button } from "../../../components/ui/button";
 import { ErrorState } from "../../../components/ui/error-state";
 import { inputClass } from "../../../components/ui/field";
 import { LoadingState } from "../../../components/ui/loading-state";
+import { RenameForm } from "../../../components/ui/rename-form";
 import { ApiError } from "../../../lib/api-client";
 import type { ChannelName } from "../../../lib/channel-names";
 import { formatDateTime, formatMoney, formatNumber } from "../../../lib/format";
@@ -22,6 +23,7 @@ import { planDecisionInput, useDecidePlan } from "../api/decide-plan";
 import { useDeletePlan } from "../api/delete-plan";
 import { useBudgetSplits } from "../api/get-budget-splits";
 import { planQueryOptions, usePlan } from "../api/get-plan";
+import { checkPlanName, useRenamePlan } from "../api/rename-plan";
 import { useSubmitPlan } from "../api/submit-plan";
 import { useWithdrawPlan } from "../api/withdraw-plan";
 import { splitViewOfSaved } from "../split/split-view";
@@ -109,6 +111,8 @@ export function SavedSplit({
   const submit = useSubmitPlan();
   const withdraw = useWithdrawPlan();
   const remove = useDeletePlan();
+  const rename = useRenamePlan();
+  const [renaming, setRenaming] = useState(false);
   const [confirmDelete, setConfirmDelete] = useState(false);
   if (query.isPending) return <LoadingState label="Loading the plan…" />;
   if (query.isError) return <ErrorState title="The plan could not be loaded" message={query.error.message} onRetry={() => void query.refetch()} />;
@@ -160,6 +164,17 @@ export function SavedSplit({
         <a className="rounded-md px-3 py-2 text-small font-medium text-stream-700 hover:bg-stream-50" href={`/api/plans/${encodeURIComponent(plan.id)}/forecast.csv`} download>
           Weekly forecast CSV
         </a>
+        {plan.can.rename && !renaming ? (
+          <Button
+            variant="quiet"
+            onClick={() => {
+              rename.reset();
+              setRenaming(true);
+            }}
+          >
+            Rename
+          </Button>
+        ) : null}
         {plan.can.delete ? (
           confirmDelete ? (
             <span className="inline-flex items-center gap-2">
@@ -188,6 +203,18 @@ export function SavedSplit({
           )
         ) : null}
       </div>
+      {renaming ? (
+        <RenameForm
+          currentName={plan.name}
+          label={`New name for “${plan.name}”`}
+          maxLength={planBounds.name.max}
+          check={checkPlanName}
+          saving={rename.isPending}
+          error={rename.isError ? (rename.error instanceof ApiError ? (rename.error.issues[0]?.message ?? rename.error.message) : messageOf(rename.error)) : null}
+          onSave={(name) => rename.mutate({ planId: plan.id, name }, { onSuccess: () => setRenaming(false) })}
+          onCancel={() => setRenaming(false)}
+        />
+      ) : null}
       {plan.status === "submitted" && !plan.can.decide ? (
         <p className="text-small text-ink-700">
           {plan.createdBy?.id === user.id && (planDeciderRoles as readonly string[]).includes(user.role)

@@ -1,13 +1,15 @@
-import { planStatusLabels, type CurrentUser, type PlanSummary } from "@tributary/contracts";
+import { planBounds, planStatusLabels, type CurrentUser, type PlanSummary } from "@tributary/contracts";
 import { useState } from "react";
 import { DataTable, type DataTableColumn } from "../../../components/data-table/data-table";
 import { Button } from "../../../components/ui/button";
 import { ErrorState } from "../../../components/ui/error-state";
 import { LoadingState } from "../../../components/ui/loading-state";
+import { RenameForm } from "../../../components/ui/rename-form";
 import { ApiError } from "../../../lib/api-client";
 import { formatDateTime, formatMoney, formatNumber } from "../../../lib/format";
 import { useDeletePlan } from "../api/delete-plan";
 import { useSavedPlans } from "../api/get-saved-plans";
+import { checkPlanName, useRenamePlan } from "../api/rename-plan";
 
 type SavedScenariosProps = {
   user: CurrentUser;
@@ -21,11 +23,23 @@ export function SavedScenarios({ user, currency, onOpen, opening }: SavedScenari
   const plans = useSavedPlans({ kind: "scenario" });
   const remove = useDeletePlan();
   const [confirming, setConfirming] = useState<string | null>(null);
+  const rename = useRenamePlan();
+  const [renaming, setRenaming] = useState<string | null>(null);
+  const [renamed, setRenamed] = useState<{ from: string; to: string } | null>(null);
 
   if (plans.isPending) return <LoadingState label="Loading saved scenarios…" />;
   if (plans.isError) return <ErrorState title="Saved scenarios could not be loaded" message={plans.error.message} onRetry={() => void plans.refetch()} />;
 
+  // The server decides; these mirror its rules (the author or an admin) to offer only what it allows.
   const mayDelete = (plan: PlanSummary) => user.role === "admin" || plan.createdBy?.id === user.id;
+  const mayRename = mayDelete;
+  const startRenaming = (plan: PlanSummary) => {
+    rename.reset();
+    setRenamed(null);
+    setConfirming(null);
+    setRenaming(plan.id);
+  };
+  const renamingPlan = plans.data.find((plan) => plan.id === renaming) ?? null;
   const columns: DataTableColumn<PlanSummary>[] = [
     {
       id: "name",
@@ -73,6 +87,11 @@ export function SavedScenarios({ user, currency, onOpen, opening }: SavedScenari
             <Button variant="secondary" className="px-2! py-1!" onClick={() => onOpen(plan)} disabled={opening !== null} aria-label={`Open ${plan.name}`}>
               {opening === plan.id ? "Opening…" : "Open"}
             </Button>
+            {mayRename(plan) ? (
+              <Button variant="quiet" className="px-2! py-1!" onClick={() => startRenaming(plan)} aria-label={`Rename ${plan.name}`}>
+                Rename
+              </Button>
+            ) : null}
             {mayDelete(plan) ? (
               <Button variant="quiet" className="px-2! py-1!" onClick={() => setConfirming(plan.id)} aria-label={`Delete ${plan.name}`}>
                 Delete
@@ -95,6 +114,35 @@ export function SavedScenarios({ user, currency, onOpen, opening }: SavedScenari
         pageSize={10}
         compact
       />
+      {renamingPlan ? (
+        <RenameForm
+          // A fresh form for each plan.
+          key={renamingPlan.id}
+          currentName={renamingPlan.name}
+          label={`New name for “${renamingPlan.name}”`}
+          maxLength={planBounds.name.max}
+          check={checkPlanName}
+          saving={rename.isPending}
+          error={rename.isError ? (rename.error instanceof ApiError ? (rename.error.issues[0]?.message ?? rename.error.message) : "Renaming failed. Please try again.") : null}
+          onSave={(name) =>
+            rename.mutate(
+              { planId: renamingPlan.id, name },
+              {
+                onSuccess: (saved) => {
+                  setRenaming(null);
+                  setRenamed({ from: renamingPlan.name, to: saved.name });
+                },
+              },
+            )
+          }
+          onCancel={() => setRenaming(null)}
+        />
+      ) : null}
+      {renamed ? (
+        <p role="status" className="text-small font-medium text-ok-700">
+          Renamed “{renamed.from}” to “{renamed.to}”.
+        </p>
+      ) : null}
       {remove.isError ? (
         <p role="alert" className="text-small font-medium text-alert-700">
           {remove.error instanceof ApiError ? remove.error.message : "Deleting failed. Please try again."}

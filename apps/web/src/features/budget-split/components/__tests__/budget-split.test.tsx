@@ -79,7 +79,7 @@ function savedPlan(body: BudgetSplitPlanInput, status: BudgetSplitPlan["status"]
     updatedAt: "2025-01-08T09:00:00.000Z",
     submitted: status === "draft" ? null : { by: { id: "u-l", name: "Lior Pask" }, at: "2025-01-08T09:05:00.000Z" },
     decision: null,
-    can: { edit: true, delete: true, submit: false, withdraw: false, decide: false, ...can },
+    can: { edit: true, rename: true, delete: true, submit: false, withdraw: false, decide: false, ...can },
     caution: "Estimates are model-based.",
     budgetSplit: { totalBudget: body.totalBudget, horizon: body.horizon, recentWeeks: body.recentWeeks ?? 13, bounds: body.bounds ?? [], objective: body.objective, risk: body.risk ?? { kind: "expected" }, result },
   };
@@ -146,7 +146,7 @@ describe("BudgetSplit", () => {
       risk: { kind: "expected" },
       allocation: [],
     };
-    let plan: BudgetSplitPlan = { ...savedPlan(body, "submitted", { decide: true }), createdBy: { id: "u-n", name: "Nell Ostrand" } };
+    let plan: BudgetSplitPlan = { ...savedPlan(body, "submitted", { decide: true, rename: false, delete: false, edit: false }), createdBy: { id: "u-n", name: "Nell Ostrand" } };
     const summary: PlanSummary = {
       id: plan.id,
       kind: "budget_split",
@@ -178,6 +178,8 @@ describe("BudgetSplit", () => {
     expect(within(list).getByRole("row", { name: /Q3 split from the analyst/ }).textContent).toMatch(/Waiting for approval/);
     fireEvent.click(within(list).getByRole("button", { name: "Open Q3 split from the analyst" }));
     const panel = await screen.findByRole("region", { name: "Plan Q3 split from the analyst" }, wait);
+    // Only the author or an admin renames it.
+    expect(within(panel).queryByRole("button", { name: "Rename" })).toBeNull();
     const decision = within(panel).getByRole("form", { name: "Decide on this plan" });
     fireEvent.click(within(decision).getByRole("button", { name: "Reject" }));
     expect(within(decision).getByRole("alert").textContent).toBe("Say why the plan is rejected (at least 5 characters)");
@@ -188,6 +190,71 @@ describe("BudgetSplit", () => {
     expect(calls.find((call) => call.path.endsWith("/decision"))?.body).toEqual({ decision: "approve", comment: "Go ahead" });
     // The saved result shows with its caution.
     expect(within(panel).getByRole("complementary", { name: "Caution about estimates" })).toBeTruthy();
+  }, 30_000);
+
+  it("lets the author rename an approved split: the name changes, the approval and numbers stay", async () => {
+    const body: BudgetSplitPlanInput = {
+      name: "Q3 split",
+      runId: "run-7",
+      cellIds: ["c1", "c3"],
+      totalBudget: 30000,
+      horizon: 13,
+      recentWeeks: 13,
+      bounds: [],
+      objective: { kind: "customers" },
+      risk: { kind: "expected" },
+      allocation: [],
+    };
+    let plan: BudgetSplitPlan = {
+      ...savedPlan(body, "approved", { edit: false, delete: false }),
+      createdBy: { id: "u-n", name: "Nell Ostrand" },
+      decision: { by: { id: "u-l", name: "Lior Pask" }, at: "2025-01-08T10:00:00.000Z", comment: "Go ahead" },
+    };
+    const summary = (): PlanSummary => ({
+      id: plan.id,
+      kind: "budget_split",
+      name: plan.name,
+      status: plan.status,
+      runId: "run-7",
+      runIsCurrent: true,
+      markets: plan.markets,
+      cellCount: 2,
+      horizon: 13,
+      spend: 30000,
+      extraCustomers: plan.budgetSplit.result.customers.difference,
+      createdBy: plan.createdBy,
+      createdAt: plan.createdAt,
+      updatedAt: plan.updatedAt,
+      decidedAt: "2025-01-08T10:00:00.000Z",
+    });
+    const { calls } = stubFetch({
+      "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()),
+      "GET /api/plans": () => jsonResponse(200, [summary()]),
+      "GET /api/plans/plan-9": () => jsonResponse(200, plan),
+      "PATCH /api/plans/plan-9": ({ body: change }) => {
+        plan = { ...plan, name: (change as { name: string }).name };
+        return jsonResponse(200, plan);
+      },
+    });
+    renderWithProviders(<BudgetSplit user={testUsers.analyst} portfolio={testPortfolio()} channelName={channelName} runner={inlineSplitRunner()} />);
+    const list = await screen.findByRole("table", { name: "Saved budget splits" }, wait);
+    fireEvent.click(within(list).getByRole("button", { name: "Open Q3 split" }));
+    const panel = await screen.findByRole("region", { name: "Plan Q3 split" }, wait);
+    fireEvent.click(within(panel).getByRole("button", { name: "Rename" }));
+    const form = within(panel).getByRole("form", { name: "New name for “Q3 split”" });
+    const field = within(form).getByRole("textbox", { name: "New name for “Q3 split”" });
+    fireEvent.change(field, { target: { value: "" } });
+    fireEvent.click(within(form).getByRole("button", { name: "Save name" }));
+    expect(within(form).getByRole("alert").textContent).toBe("Give the plan a name");
+    expect(calls.filter((call) => call.method === "PATCH")).toHaveLength(0);
+    fireEvent.change(field, { target: { value: "Q3 split (approved) " } });
+    fireEvent.click(within(form).getByRole("button", { name: "Save name" }));
+    const renamed = await screen.findByRole("region", { name: "Plan Q3 split (approved)" }, wait);
+    expect(calls.find((call) => call.method === "PATCH")?.body).toEqual({ name: "Q3 split (approved)" });
+    expect(within(renamed).getByText(/^Approved .* by Lior Pask: “Go ahead”/)).toBeTruthy();
+    expect(within(renamed).queryByRole("form", { name: /New name for/ })).toBeNull();
+    // The list follows.
+    await within(list).findByRole("button", { name: "Open Q3 split (approved)" }, wait);
   }, 30_000);
 
   it("shows the inputs that are wrong and does not split", async () => {

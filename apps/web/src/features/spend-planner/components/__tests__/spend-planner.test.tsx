@@ -1,4 +1,4 @@
-import type { PlanSummary } from "@tributary/contracts";
+import type { PlanSummary, ScenarioPlan } from "@tributary/contracts";
 import { fireEvent, screen, waitFor, within } from "@testing-library/react";
 import { describe, expect, it } from "vitest";
 import { fixtureDrawSetWire } from "../../../../testing/draw-set-fixtures";
@@ -31,6 +31,48 @@ function savedPlan(): PlanSummary {
     createdAt: "2025-01-07T10:00:00.000Z",
     updatedAt: "2025-01-07T10:00:00.000Z",
     decidedAt: null,
+  };
+}
+
+/** The saved plan as the server answers a write: its numbers computed when it was saved. */
+function fullPlan(summary: PlanSummary): ScenarioPlan {
+  const summaryOf = (q50: number) => ({ mean: q50, sd: 1, q05: q50 - 2, q25: q50 - 1, q50, q75: q50 + 1, q95: q50 + 2 });
+  return {
+    kind: "scenario",
+    id: summary.id,
+    name: summary.name,
+    note: null,
+    status: summary.status,
+    runId: summary.runId,
+    runIsCurrent: summary.runIsCurrent,
+    markets: summary.markets,
+    cells: [{ cellId: "c2", brandId: "b-fen", marketId: "m-bri", brand: "Fennick", market: "Briskmoor" }],
+    createdBy: summary.createdBy,
+    createdAt: summary.createdAt,
+    updatedAt: "2025-01-09T10:00:00.000Z",
+    submitted: null,
+    decision: null,
+    can: { edit: true, rename: true, delete: true, submit: false, withdraw: false, decide: false },
+    caution: "Estimates are model-based.",
+    scenario: {
+      horizon: 13,
+      recentWeeks: 13,
+      seed: 1,
+      operations: [{ kind: "zero", target: { channels: ["radio"] } }],
+      headline: {
+        horizon: 13,
+        currentSpend: 10_000,
+        scenarioSpend: 9100,
+        extraSpend: -900,
+        currentOutcome: summaryOf(40),
+        scenarioOutcome: summaryOf(37),
+        extraCustomers: summaryOf(-3),
+        costPerExtraCustomer: { kind: "saving-per-customer-lost", text: "€300 saved per customer lost", interval: null },
+        cells: [],
+        drawCount: 60,
+        computedAt: summary.createdAt,
+      },
+    },
   };
 }
 
@@ -133,5 +175,78 @@ describe("SpendPlanner", () => {
     renderWithProviders(<SpendPlanner user={testUsers.portfolio_lead} channelName={channelName} runner={inlinePlannerRunner()} />);
     expect(await screen.findByRole("heading", { name: "No published fit yet" })).toBeTruthy();
     expect(screen.getByRole("complementary", { name: "Caution about estimates" }).textContent).toMatch(/lift test/);
+  });
+
+  it("renames a saved scenario in place: the name is checked as the server checks it, a refusal is shown, the list follows", async () => {
+    let plan = savedPlan();
+    let refuse = true;
+    const { calls } = stubFetch({
+      "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire(undefined, ["c2"])),
+      "GET /api/plans": () => jsonResponse(200, [plan]),
+      "PATCH /api/plans/p-1": ({ body }) => {
+        if (refuse) {
+          refuse = false;
+          return jsonResponse(409, { error: { code: "conflict", message: "The plan changed meanwhile; reload it" } });
+        }
+        plan = { ...plan, name: (body as { name: string }).name, updatedAt: "2025-01-09T10:00:00.000Z" };
+        return jsonResponse(200, fullPlan(plan));
+      },
+    });
+    renderWithProviders(<SpendPlanner user={testUsers.market_manager} channelName={channelName} runner={inlinePlannerRunner()} />);
+    const saved = await screen.findByRole("table", { name: "Saved scenarios" }, wait);
+    fireEvent.click(within(saved).getByRole("button", { name: "Rename Quiet radio" }));
+    const form = screen.getByRole("form", { name: "New name for “Quiet radio”" });
+    const field = within(form).getByRole("textbox", { name: "New name for “Quiet radio”" }) as HTMLInputElement;
+    expect(field.value).toBe("Quiet radio");
+    expect(document.activeElement).toBe(field);
+
+    // A blank name and one over the limit are refused here, with the server's words, and nothing is sent.
+    fireEvent.change(field, { target: { value: "   " } });
+    fireEvent.click(within(form).getByRole("button", { name: "Save name" }));
+    expect(within(form).getByRole("alert").textContent).toBe("Give the plan a name");
+    expect(field.getAttribute("aria-invalid")).toBe("true");
+    fireEvent.change(field, { target: { value: "x".repeat(121) } });
+    fireEvent.click(within(form).getByRole("button", { name: "Save name" }));
+    expect(within(form).getByRole("alert").textContent).toBe("Keep the name to 120 characters or fewer");
+    expect(calls.filter((call) => call.method === "PATCH")).toHaveLength(0);
+
+    // The server's refusal stays with the name that was sent.
+    fireEvent.change(field, { target: { value: "  Radio off in Briskmoor " } });
+    fireEvent.click(within(form).getByRole("button", { name: "Save name" }));
+    expect((await within(form).findByRole("alert", {}, wait)).textContent).toBe("The plan changed meanwhile; reload it");
+    expect(within(saved).getByRole("row", { name: /Quiet radio/ })).toBeTruthy();
+
+    fireEvent.click(within(form).getByRole("button", { name: "Save name" }));
+    await screen.findByText("Renamed “Quiet radio” to “Radio off in Briskmoor”.", {}, wait);
+    const patches = calls.filter((call) => call.method === "PATCH");
+    expect(patches.map((call) => call.body)).toEqual([{ name: "Radio off in Briskmoor" }, { name: "Radio off in Briskmoor" }]);
+    await within(saved).findByRole("button", { name: "Rename Radio off in Briskmoor" }, wait);
+    expect(screen.queryByRole("form", { name: /New name for/ })).toBeNull();
+  });
+
+  it("offers renaming only to the author and admins, and Escape keeps the name", async () => {
+    stubFetch({
+      "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()),
+      "GET /api/plans": () => jsonResponse(200, [savedPlan()]),
+    });
+    const first = renderWithProviders(<SpendPlanner user={testUsers.analyst} channelName={channelName} runner={inlinePlannerRunner()} />);
+    const asAnalyst = await screen.findByRole("table", { name: "Saved scenarios" }, wait);
+    expect(within(asAnalyst).getByRole("button", { name: "Open Quiet radio" })).toBeTruthy();
+    expect(within(asAnalyst).queryByRole("button", { name: "Rename Quiet radio" })).toBeNull();
+    first.unmount();
+
+    const { calls } = stubFetch({
+      "GET /api/runs/current/draw-set": () => jsonResponse(200, fixtureDrawSetWire()),
+      "GET /api/plans": () => jsonResponse(200, [savedPlan()]),
+    });
+    renderWithProviders(<SpendPlanner user={testUsers.admin} channelName={channelName} runner={inlinePlannerRunner()} />);
+    const asAdmin = await screen.findByRole("table", { name: "Saved scenarios" }, wait);
+    fireEvent.click(within(asAdmin).getByRole("button", { name: "Rename Quiet radio" }));
+    const field = screen.getByRole("textbox", { name: "New name for “Quiet radio”" });
+    fireEvent.change(field, { target: { value: "Something else" } });
+    fireEvent.keyDown(field, { key: "Escape" });
+    expect(screen.queryByRole("form", { name: "New name for “Quiet radio”" })).toBeNull();
+    expect(within(asAdmin).getByRole("row", { name: /Quiet radio/ })).toBeTruthy();
+    expect(calls.filter((call) => call.method === "PATCH")).toHaveLength(0);
   });
 });
