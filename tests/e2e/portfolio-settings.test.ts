@@ -1,7 +1,8 @@
 // Portfolio settings against the real server: the admin changes a brand's customer value
 // and a channel's name on the screen, finds them on the Portfolio map (the value and the
 // chance of profit it gives) and on the Channel sheet, sees the audit entries, then puts
-// the original values back. Other test files share this server and its demo data, so the
+// the original values back. Likewise a brand's and a market's display names, found on the
+// Portfolio map and in the Spend planner. Other test files share this server and its demo data, so the
 // originals are restored even when a step fails; the currency is never changed here.
 import type { AuditLogPage, ChannelSheet, PortfolioMap, PortfolioSettings } from "@tributary/contracts";
 import type { Page } from "playwright-core";
@@ -29,8 +30,10 @@ async function writeFromPage(page: Page, method: "PUT" | "PATCH", url: string, b
   );
 }
 
-/** Puts the brands' values and the channels' names and order back as they were. */
+/** Puts the brands' values, the brand and market names and the channels' names and order back as they were. */
 async function restore(page: Page, original: PortfolioSettings): Promise<void> {
+  expect(await writeFromPage(page, "PUT", "/api/portfolio-settings/brand-names", { brands: original.brands.map((b) => ({ id: b.id, name: b.name })) })).toBe(200);
+  expect(await writeFromPage(page, "PUT", "/api/portfolio-settings/market-names", { markets: original.markets.map((m) => ({ id: m.id, name: m.name })) })).toBe(200);
   expect(await writeFromPage(page, "PUT", "/api/portfolio-settings/customer-values", { brands: original.brands.map((b) => ({ id: b.id, customerValue: b.customerValue })) })).toBe(200);
   expect(await writeFromPage(page, "PUT", "/api/portfolio-settings/channels", { channels: original.channels.map((c) => ({ id: c.id, name: c.name })) })).toBe(200);
 }
@@ -132,6 +135,79 @@ describe("portfolio settings", () => {
       expect(problems).toEqual([]);
     } finally {
       // Whatever failed above, the shared demo data is left as it was found.
+      await restore(page, original);
+    }
+  });
+
+  it("the admin renames a brand and a market, finds the new names on the Portfolio map and in the Spend planner, and restores them", async () => {
+    const session = await openBrowser({ width: 1366, height: 900 });
+    sessions.push(session);
+    const { page, problems } = session;
+    await signIn(page, server.baseUrl, "admin");
+    const original = await fetchFromPage<PortfolioSettings>(page, "/api/portfolio-settings");
+    const brand = original.brands.find((b) => b.code === "plumrise")!;
+    const market = original.markets.find((m) => m.code === "solvera")!;
+    const brandName = `${brand.name} Home`;
+    const marketName = `${market.name} Coast`;
+    try {
+      await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Portfolio settings" }).click();
+      const brands = page.getByRole("form", { name: "Brand names" });
+      await brands.waitFor();
+      const brandInput = brands.getByLabel(`Display name of ${brand.code}`);
+      expect(await brandInput.inputValue()).toBe(brand.name);
+
+      // Another brand's name is refused beside the field, and nothing is sent.
+      await brandInput.fill("  KESTROVA ");
+      await brands.getByRole("button", { name: "Save brand names" }).click();
+      await brands.getByText('Another brand is already called "Kestrova"').waitFor();
+      expect(await brandInput.getAttribute("aria-invalid")).toBe("true");
+      await saveScreenshot(page, "portfolio-settings", "06-brand-name-refused");
+      expect((await fetchFromPage<PortfolioSettings>(page, "/api/portfolio-settings")).brands).toEqual(original.brands);
+
+      await brandInput.fill(brandName);
+      await brandInput.press("Enter");
+      await brands.getByText(`Saved: “${brand.name}” is now “${brandName}”`, { exact: false }).waitFor();
+      const markets = page.getByRole("form", { name: "Market names" });
+      await markets.getByLabel(`Display name of ${market.code}`).fill(marketName);
+      await markets.getByRole("button", { name: "Save market names" }).click();
+      await markets.getByText(`Saved: “${market.name}” is now “${marketName}”`, { exact: false }).waitFor();
+      await saveScreenshot(page, "portfolio-settings", "07-names-changed");
+
+      // The Portfolio map: the brand's row and the market's column under their new names.
+      await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Portfolio map" }).click();
+      const grid = page.getByRole("table", { name: /Brands × markets/ });
+      await grid.getByRole("rowheader", { name: new RegExp(brandName) }).waitFor();
+      await grid.getByRole("columnheader", { name: marketName }).waitFor();
+      expect(await grid.getByRole("columnheader", { name: market.name, exact: true }).count()).toBe(0);
+      await saveScreenshot(page, "portfolio-settings", "08-portfolio-map-names");
+
+      // The Spend planner works on the current fit's draws, named as the brand and market are now.
+      await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Spend planner" }).click();
+      const lines = page.getByRole("table", { name: "Current plan per line" });
+      await lines.waitFor();
+      await lines.getByText(brandName, { exact: false }).first().waitFor();
+      expect(await lines.textContent()).not.toMatch(new RegExp(`${brand.name}(?! Home)`));
+      await saveScreenshot(page, "portfolio-settings", "09-spend-planner-names");
+
+      const brandLog = await fetchFromPage<AuditLogPage>(page, "/api/audit-log?action=brand_renamed&page=1&pageSize=5");
+      expect(brandLog.entries[0]).toMatchObject({ target: `brand:${brand.id}`, details: { brand: brand.code, from: brand.name, to: brandName } });
+      const marketLog = await fetchFromPage<AuditLogPage>(page, "/api/audit-log?action=market_renamed&page=1&pageSize=5");
+      expect(marketLog.entries[0]).toMatchObject({ target: `market:${market.id}`, details: { market: market.code, from: market.name, to: marketName } });
+
+      // Back on the screen.
+      await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Portfolio settings" }).click();
+      const brandsAgain = page.getByRole("form", { name: "Brand names" });
+      await brandsAgain.getByLabel(`Display name of ${brand.code}`).fill(brand.name);
+      await brandsAgain.getByRole("button", { name: "Save brand names" }).click();
+      await brandsAgain.getByText(`is now “${brand.name}”`, { exact: false }).waitFor();
+      const marketsAgain = page.getByRole("form", { name: "Market names" });
+      await marketsAgain.getByLabel(`Display name of ${market.code}`).fill(market.name);
+      await marketsAgain.getByRole("button", { name: "Save market names" }).click();
+      await marketsAgain.getByText(`is now “${market.name}”`, { exact: false }).waitFor();
+      const restored = await fetchFromPage<PortfolioSettings>(page, "/api/portfolio-settings");
+      expect({ brands: restored.brands, markets: restored.markets }).toEqual({ brands: original.brands, markets: original.markets });
+      expect(problems).toEqual([]);
+    } finally {
       await restore(page, original);
     }
   });

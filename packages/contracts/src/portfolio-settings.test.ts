@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { channelSettingsInput, companySettingsInput, currencyCodes, customerValuesInput, isCurrencyCode, nameKey } from "./portfolio-settings";
+import { brandNamesInput, channelSettingsInput, companySettingsInput, currencyCodes, customerValuesInput, isCurrencyCode, marketNamesInput, nameKey } from "./portfolio-settings";
 
 describe("portfolio settings schemas", () => {
   it("offers the ISO 4217 codes the runtime can format, alphabetical, and refuses others", () => {
@@ -39,5 +39,22 @@ describe("portfolio settings schemas", () => {
     const result = channelSettingsInput.safeParse({ channels: [{ id: "a", name: "Online video" }, { id: "b", name: " ONLINE   video" }, { id: "c", name: "TV" }] });
     expect(result.error?.issues.map((i) => [i.path.join("."), i.message])).toEqual([["channels.1.name", 'Another channel is already called "Online video"']]);
     expect(channelSettingsInput.parse({ channels: [{ id: "a", name: "TV" }, { id: "b", name: "Radio" }] }).channels.map((c) => c.name)).toEqual(["TV", "Radio"]);
+  });
+
+  it("takes brand and market names tidied, and refuses empty, too long, unsafe or twice-used names", () => {
+    expect(brandNamesInput.parse({ brands: [{ id: "b", name: "  Larkholm \u200B Home " }] }).brands[0]?.name).toBe("Larkholm Home");
+    expect(marketNamesInput.parse({ markets: [{ id: "m", name: "Dunmere" }] }).markets[0]?.name).toBe("Dunmere");
+    const messages = (name: unknown) => brandNamesInput.safeParse({ brands: [{ id: "b", name }] }).error?.issues.map((i) => [i.path.join("."), i.message]);
+    expect(messages(" ")).toEqual([["brands.0.name", "The brand name cannot be empty"]]);
+    expect(messages("x".repeat(101))).toEqual([["brands.0.name", "Keep the brand name to 100 characters"]]);
+    expect(messages("=SUM(A1)")?.[0]?.[1]).toContain("spreadsheets read as a formula");
+    expect(messages(12)?.[0]).toEqual(["brands.0.name", "Enter the brand name as text"]);
+    expect(brandNamesInput.safeParse({ brands: [{ id: "b", name: "x".repeat(100) }] }).success).toBe(true);
+    const twice = marketNamesInput.safeParse({ markets: [{ id: "a", name: "Dunmere" }, { id: "b", name: " DUNMERE " }, { id: "a", name: "Pellan" }] });
+    expect(twice.error?.issues.map((i) => [i.path.join("."), i.message])).toEqual([
+      ["markets.1.name", 'Another market is already called "Dunmere"'],
+      ["markets.2.id", "This market is listed twice"],
+    ]);
+    expect(brandNamesInput.safeParse({ brands: [] }).error?.issues[0]?.message).toBe("List at least one brand");
   });
 });

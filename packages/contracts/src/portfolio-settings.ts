@@ -1,15 +1,20 @@
 import { z } from "zod";
 
 // Portfolio settings (admins): the company name, the reporting currency, what a new
-// customer is worth to each brand, and the channels' display names and order. The same
-// schemas check the Portfolio settings form in the browser and every write on the server.
+// customer is worth to each brand, the brands' and markets' display names, and the
+// channels' display names and order. The same schemas check the Portfolio settings form
+// in the browser and every write on the server.
 
 export const portfolioSettingsBounds = {
   companyName: { max: 120 },
   channelName: { max: 60 },
+  /** As long as a brand or market name a data file may bring (the intake's limit). */
+  brandName: { max: 100 },
+  marketName: { max: 100 },
   /** Largest customer value accepted (in the reporting currency): far above any real one, well inside double precision. */
   customerValue: { max: 1_000_000_000 },
   brands: { max: 500 },
+  markets: { max: 500 },
   channels: { max: 200 },
 } as const;
 
@@ -69,6 +74,8 @@ const nameField = (what: string, max: number) =>
 
 export const companyNameField = nameField("The company name", portfolioSettingsBounds.companyName.max);
 export const channelNameField = nameField("The channel name", portfolioSettingsBounds.channelName.max);
+export const brandNameField = nameField("The brand name", portfolioSettingsBounds.brandName.max);
+export const marketNameField = nameField("The market name", portfolioSettingsBounds.marketName.max);
 
 /** A three-letter ISO 4217 code that money can be formatted in ("eur" is read as "EUR"). */
 export const currencyCodeField = z
@@ -91,6 +98,7 @@ export const customerValueField = z
 // ---------------------------------------------------------------------------------
 
 export const settingsBrandSchema = z.object({ id: z.string(), code: z.string(), name: z.string(), customerValue: z.number().nullable() });
+export const settingsMarketSchema = z.object({ id: z.string(), code: z.string(), name: z.string() });
 export const settingsChannelSchema = z.object({ id: z.string(), code: z.string(), name: z.string(), position: z.number().int() });
 
 /** GET /api/portfolio-settings (admins), and the answer of every write. */
@@ -99,12 +107,15 @@ export const portfolioSettingsSchema = z.object({
   currency: z.string(),
   /** Every brand, by name. */
   brands: z.array(settingsBrandSchema),
+  /** Every market, by name. */
+  markets: z.array(settingsMarketSchema),
   /** Every channel, in display order. */
   channels: z.array(settingsChannelSchema),
   updatedAt: z.string(),
 });
 export type PortfolioSettings = z.infer<typeof portfolioSettingsSchema>;
 export type SettingsBrand = z.infer<typeof settingsBrandSchema>;
+export type SettingsMarket = z.infer<typeof settingsMarketSchema>;
 export type SettingsChannel = z.infer<typeof settingsChannelSchema>;
 
 // ---------------------------------------------------------------------------------
@@ -159,6 +170,36 @@ export const channelSettingsInput = z.object({
 });
 export type ChannelSettingsInput = z.input<typeof channelSettingsInput>;
 
+/** A list of `{ id, name }` renames: each id once, and no two names the same (case, spacing and joiners aside). */
+const renameList = (what: "brand" | "market", field: typeof brandNameField, max: number) =>
+  z
+    .array(z.object({ id: idField(what), name: field }), `List the ${what}s and their new names`)
+    .min(1, `List at least one ${what}`)
+    .max(max, `List at most ${max} ${what}s`)
+    .superRefine((list, ctx) => {
+      const ids = new Set<string>();
+      const names = new Map<string, number>();
+      list.forEach((entry, i) => {
+        if (ids.has(entry.id)) ctx.addIssue({ code: "custom", path: [i, "id"], message: `This ${what} is listed twice` });
+        ids.add(entry.id);
+        const key = nameKey(entry.name);
+        const first = names.get(key);
+        if (first !== undefined) ctx.addIssue({ code: "custom", path: [i, "name"], message: `Another ${what} is already called "${list[first]!.name}"` });
+        else names.set(key, i);
+      });
+    });
+
+/**
+ * PUT /api/portfolio-settings/brand-names: new display names for the brands listed (others
+ * keep theirs). Codes never change: data files and links name brands by code.
+ */
+export const brandNamesInput = z.object({ brands: renameList("brand", brandNameField, portfolioSettingsBounds.brands.max) });
+export type BrandNamesInput = z.input<typeof brandNamesInput>;
+
+/** PUT /api/portfolio-settings/market-names: new display names for the markets listed (others keep theirs; codes never change). */
+export const marketNamesInput = z.object({ markets: renameList("market", marketNameField, portfolioSettingsBounds.markets.max) });
+export type MarketNamesInput = z.input<typeof marketNamesInput>;
+
 /** The audit log's actions for portfolio settings. */
 export const portfolioSettingsActions = {
   companyName: "company_name_changed",
@@ -166,4 +207,6 @@ export const portfolioSettingsActions = {
   customerValue: "customer_value_changed",
   channelName: "channel_renamed",
   channelOrder: "channel_order_changed",
+  brandName: "brand_renamed",
+  marketName: "market_renamed",
 } as const;

@@ -222,6 +222,9 @@ const table: Record<string, Entry> = {
     expect: adminsOnly(200),
     request: async () => ({ body: { channels: (await w.db.select({ id: channels.id, name: channels.name }).from(channels).orderBy(asc(channels.position))).map((c) => ({ id: c.id, name: c.name })) } }),
   },
+  // The names they have: the answer is the same, and no other case sees a renamed brand or market.
+  "PUT /api/portfolio-settings/brand-names": { expect: adminsOnly(200), request: () => ({ body: { brands: [{ id: w.brandId.get("Kestrova")!, name: "Kestrova" }] } }) },
+  "PUT /api/portfolio-settings/market-names": { expect: adminsOnly(200), request: () => ({ body: { markets: [{ id: ids.veltria, name: "Veltria" }] } }) },
   "GET /api/audit-log": { expect: adminsOnly(200) },
   "GET /api/outbox": { expect: adminsOnly(200) },
   "GET /api/outbox/:messageId": { expect: adminsOnly(200), request: () => ({ params: { messageId: ids.outboxMessage } }) },

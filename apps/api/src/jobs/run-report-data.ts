@@ -6,7 +6,7 @@ import type { ParameterDiagnostic, ParameterTrace } from "@tributary/contracts";
 import type { ChainResult, ParameterSummary, PortfolioData } from "@tributary/stats";
 
 /** Readable labels of the model's parameter names, e.g. "beta[3,search]" → "beta · Kestrova × Veltria · search". */
-export function parameterLabeller(data: PortfolioData): (name: string) => string {
+export function parameterLabeller(data: { readonly cells: readonly Pick<PortfolioData["cells"][number], "brand" | "market">[] }): (name: string) => string {
   const brands = [...new Set(data.cells.map((c) => c.brand))];
   const markets = [...new Set(data.cells.map((c) => c.market))];
   const cellLabel = (g: number) => {

@@ -7,6 +7,7 @@ import type { MarketScope } from "../access/route-table";
 import type { Queryable } from "../db/client";
 import { cells, runResults, runs, workspaceSettings } from "../db/schema";
 import { Conflict, Invalid, NotFound } from "../http/errors";
+import { entityNames, type EntityNames } from "../queries/entity-names";
 import { loadRunDrawSet } from "../runs/run-results";
 import { currentRunId } from "../runs/run-queries";
 
@@ -49,8 +50,31 @@ async function load(db: Queryable, runId: string): Promise<PlanningDraws> {
   return { runId, publishedAt: run.publishedAt, set, cells: ids };
 }
 
-/** The run's planning draws (kept in memory for the last few runs asked for). */
-export function planningDraws(db: Queryable, runId: string): Promise<PlanningDraws> {
+/**
+ * The run's planning draws (kept in memory for the last few runs asked for), its cells
+ * named by the brands' and markets' current names: plans and the planner name cells by
+ * name, and an admin may rename a brand or market after the draws were loaded.
+ */
+export async function planningDraws(db: Queryable, runId: string): Promise<PlanningDraws> {
+  const [draws, names] = await Promise.all([keptPlanningDraws(db, runId), entityNames(db)]);
+  return withCurrentNames(draws, names);
+}
+
+/** The draws with each cell's brand and market named as they are now (the same object when nothing was renamed). */
+export function withCurrentNames(draws: PlanningDraws, names: EntityNames): PlanningDraws {
+  let renamed = false;
+  const named = draws.set.cells.map((cell, g) => {
+    const ids = draws.cells[g]!;
+    const brand = names.brands.get(ids.brandId) ?? cell.brand;
+    const market = names.markets.get(ids.marketId) ?? cell.market;
+    if (brand === cell.brand && market === cell.market) return cell;
+    renamed = true;
+    return { ...cell, brand, market };
+  });
+  return renamed ? { ...draws, set: { ...draws.set, cells: named } } : draws;
+}
+
+function keptPlanningDraws(db: Queryable, runId: string): Promise<PlanningDraws> {
   let perDb = cache.get(db);
   if (!perDb) {
     perDb = new Map();

@@ -3,13 +3,34 @@
 // each write with its audit entry, bad input refused naming the field with nothing
 // changed, every other role refused, and the dashboards answering with the new names,
 // values and currency at once (their cached numbers are per run; names and values are
-// reread after any write).
+// reread after any write). A renamed brand or market shows under its new name wherever
+// brands and markets are named: lists, dashboards, run results and report, the planning
+// draws and saved plans (whose targets name it), while data files still find it by code.
 import { asc, count, desc, eq, inArray } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { apiErrorSchema, channelSheetSchema, portfolioMapSchema, portfolioSettingsActions, portfolioSettingsSchema, type PortfolioSettings } from "@tributary/contracts";
-import { auditLog, brands, channels, workspaceSettings } from "../db/schema";
+import Papa from "papaparse";
+import {
+  apiErrorSchema,
+  brandComparisonSchema,
+  channelSheetSchema,
+  decodeDrawSet,
+  drawSetWireSchema,
+  marketDeskSchema,
+  planSchema,
+  planSummarySchema,
+  portfolioMapSchema,
+  portfolioSettingsActions,
+  portfolioSettingsSchema,
+  runReportSchema,
+  runResultsSchema,
+  type BudgetSplitPlanInput,
+  type PortfolioSettings,
+} from "@tributary/contracts";
+import { budgetSplit } from "@tributary/stats";
+import { auditLog, brands, channels, markets, plans, workspaceSettings } from "../db/schema";
 import { computeRunEstimates } from "../dashboards/run-estimates";
-import { anonymous, fittedWorld, type Agent, type World } from "../testing/fitted-world";
+import { planEntities } from "../datasets/portfolio-entities";
+import { anonymous, currentRun, fittedWorld, type Agent, type World } from "../testing/fitted-world";
 
 let w: World;
 let admin: Agent;
@@ -30,7 +51,9 @@ async function state() {
   return {
     settings: settingsRow,
     brands: await w.db.select().from(brands).orderBy(asc(brands.code)),
+    markets: await w.db.select().from(markets).orderBy(asc(markets.code)),
     channels: await w.db.select().from(channels).orderBy(asc(channels.code)),
+    plans: await w.db.select({ id: plans.id, body: plans.body, updatedAt: plans.updatedAt }).from(plans).orderBy(asc(plans.id)),
     audit: (await w.db.select({ n: count() }).from(auditLog))[0]!.n,
   };
 }
@@ -55,6 +78,8 @@ describe("reading the portfolio settings", () => {
       ["Plumrise", 95],
       ["Sundrift", 180],
     ]);
+    expect(s.markets.map((m) => [m.code, m.name])).toContainEqual(["veltria", "Veltria"]);
+    expect(s.markets.map((m) => m.name)).toEqual([...s.markets.map((m) => m.name)].sort());
     expect(s.channels.map((c) => c.position)).toEqual([...s.channels.map((c) => c.position)].sort((a, b) => a - b));
     expect(s.channels.map((c) => c.code)).toContain("search");
   });
@@ -196,6 +221,178 @@ describe("channel names and order", () => {
   });
 });
 
+describe("brand and market names", () => {
+  const csvRows = (text: string) => Papa.parse<string[]>(text.replace(/^\uFEFF/, "").trim()).data;
+
+  /** A budget split naming Kestrova in a bound and in a profit objective, as the browser computes it. */
+  async function kestrovaSplit(): Promise<BudgetSplitPlanInput> {
+    const wire = drawSetWireSchema.parse((await w.agents.portfolioLead.get("/api/runs/current/draw-set").expect(200)).body);
+    const set = decodeDrawSet(wire);
+    const cellIds = [w.cellId.get("Kestrova × Veltria")!, w.cellId.get("Plumrise × Veltria")!];
+    const refs = cellIds.map((id) => set.cells.find((c) => c.cellId === id)!);
+    const inputs = {
+      totalBudget: 150_000,
+      horizon: 8,
+      recentWeeks: 8,
+      bounds: [{ target: { brands: ["Kestrova"] }, lower: 20_000 }],
+      objective: { kind: "profit" as const, customerValue: { Kestrova: 140, Plumrise: 95 } },
+    };
+    const result = budgetSplit(set, { ...inputs, cells: refs.map((c) => ({ brand: c.brand, market: c.market })) });
+    return {
+      name: "Kestrova floor",
+      runId: wire.runId,
+      cellIds,
+      ...inputs,
+      allocation: result.lines.map((line) => ({ cellId: refs.find((c) => c.brand === line.brand)!.cellId, channel: line.channel, amount: line.allocation })),
+    };
+  }
+
+  it("renames a brand everywhere it is shown, relabels saved plans that name it, and keeps its code for data files", async () => {
+    const kestrova = w.brandId.get("Kestrova")!;
+    const kv = w.cellId.get("Kestrova × Veltria")!;
+    const analyst = w.agents.analyst;
+    const scenario = planSchema.parse(
+      (
+        await analyst
+          .post("/api/plans/scenarios")
+          .send({
+            name: "Kestrova search push",
+            runId: await currentRun(w),
+            cellIds: [kv, w.cellId.get("Plumrise × Veltria")!],
+            horizon: 8,
+            recentWeeks: 6,
+            operations: [
+              { kind: "scale", target: { brands: ["Kestrova"], channels: ["search"] }, factor: 1.3 },
+              { kind: "add", target: { cells: [{ brand: "Plumrise", market: "Veltria" }] }, amountPerWeek: 200 },
+            ],
+          })
+          .expect(201)
+      ).body,
+    );
+    const split = planSchema.parse((await analyst.post("/api/plans/budget-splits").send(await kestrovaSplit()).expect(201)).body);
+    const storedBefore = await w.db.select().from(plans).where(inArray(plans.id, [scenario.id, split.id])).orderBy(asc(plans.id));
+
+    const answer = portfolioSettingsSchema.parse(
+      (await admin.put("/api/portfolio-settings/brand-names").send({ brands: [{ id: kestrova, name: "  Kestrova   Home " }] }).expect(200)).body,
+    );
+    expect(answer.brands.find((b) => b.id === kestrova)).toMatchObject({ code: "kestrova", name: "Kestrova Home", customerValue: 140 });
+    const entry = await latestAudit(portfolioSettingsActions.brandName);
+    expect(entry).toMatchObject({ userId: w.userId.admin, target: `brand:${kestrova}`, details: { brand: "kestrova", from: "Kestrova", to: "Kestrova Home" } });
+
+    // Lists and dashboards.
+    expect((await analyst.get("/api/brands").expect(200)).body.find((b: { id: string }) => b.id === kestrova).name).toBe("Kestrova Home");
+    expect((await analyst.get("/api/portfolio").expect(200)).body.brands.find((b: { id: string }) => b.id === kestrova).name).toBe("Kestrova Home");
+    const map = portfolioMapSchema.parse((await w.agents.portfolioLead.get("/api/dashboards/portfolio-map").expect(200)).body);
+    expect(map.cells.find((c) => c.cellId === kv)?.brand).toBe("Kestrova Home");
+    const comparison = brandComparisonSchema.parse((await w.agents.veltriaManager.get("/api/dashboards/brand-comparison").expect(200)).body);
+    expect(comparison.brands.map((b) => b.name)).toContain("Kestrova Home");
+    expect(comparison.brands.map((b) => b.name)).not.toContain("Kestrova");
+    // The run's stored results and report, named as the brand is called now.
+    const results = runResultsSchema.parse((await w.agents.veltriaManager.get("/api/runs/current").expect(200)).body);
+    expect(results.cells.filter((c) => c.brandId === kestrova).map((c) => c.brand)).toEqual(["Kestrova Home", "Kestrova Home"]);
+    const report = runReportSchema.parse((await analyst.get(`/api/runs/${await currentRun(w)}/report`).expect(200)).body);
+    expect(report.predictiveCheck.filter((c) => c.brand.startsWith("Kestrova")).map((c) => c.brand)).toEqual(["Kestrova Home", "Kestrova Home"]);
+    const labels = [...report.parameters.map((p) => p.label), ...report.traces.map((t) => t.label)];
+    expect(labels.some((label) => label.includes("Kestrova Home × Veltria"))).toBe(true);
+    expect(labels.some((label) => label.includes("Kestrova ×"))).toBe(false);
+    // The planning draws (kept in memory since before the rename) carry the new name.
+    const wire = drawSetWireSchema.parse((await w.agents.veltriaManager.get("/api/runs/current/draw-set").expect(200)).body);
+    expect(wire.cells.find((c) => c.cellId === kv)?.brand).toBe("Kestrova Home");
+
+    // Saved plans: their targets and results renamed, no number changed; they still export and can be saved again.
+    const storedAfter = await w.db.select().from(plans).where(inArray(plans.id, [scenario.id, split.id])).orderBy(asc(plans.id));
+    const expected = JSON.parse(JSON.stringify(storedBefore.map((p) => p.body)).replaceAll('"Kestrova"', '"Kestrova Home"'));
+    expect(storedAfter.map((p) => p.body)).toEqual(expected);
+    expect(storedAfter.map((p) => [p.name, p.updatedAt])).toEqual(storedBefore.map((p) => [p.name, p.updatedAt]));
+    const reread = planSchema.parse((await analyst.get(`/api/plans/${scenario.id}`).expect(200)).body);
+    if (reread.kind !== "scenario") throw new Error("not a scenario");
+    expect(reread.scenario.operations[0]?.target?.brands).toEqual(["Kestrova Home"]);
+    expect(reread.cells.find((c) => c.cellId === kv)?.brand).toBe("Kestrova Home");
+    const allocation = csvRows((await analyst.get(`/api/plans/${scenario.id}/allocation.csv`).expect(200)).text);
+    expect(allocation.filter((r) => r[0] === "Kestrova Home")).toHaveLength(2);
+    const splitCsv = csvRows((await analyst.get(`/api/plans/${split.id}/allocation.csv`).expect(200)).text);
+    expect(splitCsv.filter((r) => r[0] === "Kestrova Home").length).toBeGreaterThan(0);
+    expect(splitCsv.some((r) => r[0] === "Kestrova")).toBe(false);
+    await analyst.get(`/api/plans/${split.id}/forecast.csv`).expect(200);
+    const storedSplit = storedAfter.find((p) => p.id === split.id)!.body as { budgetSplit: { bounds: unknown; objective: unknown } };
+    expect(storedSplit.budgetSplit.bounds).toEqual([{ target: { brands: ["Kestrova Home"] }, lower: 20_000 }]);
+    expect(storedSplit.budgetSplit.objective).toEqual({ kind: "profit", customerValue: { "Kestrova Home": 140, Plumrise: 95 } });
+    await analyst.put(`/api/plans/${scenario.id}`).send({ name: reread.name, runId: reread.runId, cellIds: reread.cells.map((c) => c.cellId), horizon: 8, recentWeeks: 6, operations: reread.scenario.operations }).expect(200);
+
+    // Data files still find the brand by its code (its old name) or by its new name; nothing new would be created.
+    for (const spelling of ["Kestrova", "kestrova  home"]) {
+      const entities = await planEntities(w.db, { cells: [{ brand: spelling, market: "Veltria" }], channels: [], brandColumn: "brand", marketColumn: "market" });
+      expect(entities.brands.get(spelling)?.id, spelling).toBe(kestrova);
+      expect(entities.newEntities).toMatchObject({ brands: [], cells: [] });
+    }
+
+    // And back: every plan is as it was.
+    await admin.put("/api/portfolio-settings/brand-names").send({ brands: [{ id: kestrova, name: "Kestrova" }] }).expect(200);
+    const restored = await w.db.select().from(plans).where(eq(plans.id, split.id));
+    expect(restored[0]!.body).toEqual(storedBefore.find((p) => p.id === split.id)!.body);
+    expect((await latestAudit(portfolioSettingsActions.brandName))?.details).toEqual({ brand: "kestrova", from: "Kestrova Home", to: "Kestrova" });
+    await analyst.delete(`/api/plans/${scenario.id}`).expect(204);
+    await analyst.delete(`/api/plans/${split.id}`).expect(204);
+  });
+
+  it("renames a market: a market manager's lists, dashboards and saved plans follow", async () => {
+    const veltria = w.marketId.get("Veltria")!;
+    const manager = w.agents.veltriaManager;
+    const plan = planSchema.parse(
+      (
+        await manager
+          .post("/api/plans/scenarios")
+          .send({
+            name: "Veltria social",
+            runId: await currentRun(w),
+            cellIds: [w.cellId.get("Kestrova × Veltria")!],
+            horizon: 8,
+            recentWeeks: 6,
+            operations: [{ kind: "scale", target: { markets: ["Veltria"], channels: ["social"] }, factor: 1.2 }],
+          })
+          .expect(201)
+      ).body,
+    );
+    const answer = portfolioSettingsSchema.parse((await admin.put("/api/portfolio-settings/market-names").send({ markets: [{ id: veltria, name: "Veltria Coast" }] }).expect(200)).body);
+    expect(answer.markets.find((m) => m.id === veltria)).toEqual({ id: veltria, code: "veltria", name: "Veltria Coast" });
+    expect((await latestAudit(portfolioSettingsActions.marketName))?.details).toEqual({ market: "veltria", from: "Veltria", to: "Veltria Coast" });
+
+    expect((await manager.get("/api/markets").expect(200)).body.map((m: { name: string }) => m.name)).toEqual(["Veltria Coast"]);
+    const desk = marketDeskSchema.parse((await manager.get("/api/dashboards/market-desk").query({ market: veltria }).expect(200)).body);
+    expect(JSON.stringify(desk)).toContain("Veltria Coast");
+    expect(JSON.stringify(desk)).not.toMatch(/"Veltria"/);
+    const summaries = planSummarySchema.array().parse((await manager.get("/api/plans").expect(200)).body);
+    expect(summaries.find((p) => p.id === plan.id)?.markets.map((m) => m.name)).toEqual(["Veltria Coast"]);
+    const reread = planSchema.parse((await manager.get(`/api/plans/${plan.id}`).expect(200)).body);
+    if (reread.kind !== "scenario") throw new Error("not a scenario");
+    expect(reread.scenario.operations[0]?.target?.markets).toEqual(["Veltria Coast"]);
+    expect(reread.scenario.headline.cells.map((c) => c.market)).toEqual(["Veltria Coast"]);
+    await manager.get(`/api/plans/${plan.id}/forecast.csv`).expect(200);
+    const wire = drawSetWireSchema.parse((await manager.get("/api/runs/current/draw-set").expect(200)).body);
+    expect(wire.cells.map((c) => c.market)).toEqual(["Veltria Coast", "Veltria Coast"]);
+
+    await admin.put("/api/portfolio-settings/market-names").send({ markets: [{ id: veltria, name: "Veltria" }] }).expect(200);
+    expect((await manager.get("/api/markets").expect(200)).body.map((m: { name: string }) => m.name)).toEqual(["Veltria"]);
+    await manager.delete(`/api/plans/${plan.id}`).expect(204);
+  });
+
+  it("writes nothing when no name changes (tidied, the same name is no change)", async () => {
+    const before = await state();
+    await admin.put("/api/portfolio-settings/brand-names").send({ brands: [{ id: w.brandId.get("Plumrise"), name: " Plumrise " }] }).expect(200);
+    await admin.put("/api/portfolio-settings/market-names").send({ markets: [{ id: w.marketId.get("Solvera"), name: "Solvera" }] }).expect(200);
+    expect(await state()).toEqual(before);
+  });
+
+  it("lets a brand take a name another brand gives up in the same change", async () => {
+    const [plumrise, sundrift] = [w.brandId.get("Plumrise")!, w.brandId.get("Sundrift")!];
+    await admin.put("/api/portfolio-settings/brand-names").send({ brands: [{ id: plumrise, name: "Plumrise Classic" }] }).expect(200);
+    await admin.put("/api/portfolio-settings/brand-names").send({ brands: [{ id: plumrise, name: "Sundrift Classic" }, { id: sundrift, name: "Plumrise Classic" }] }).expect(200);
+    const names = (await settings()).brands.map((b) => [b.code, b.name]);
+    expect(names).toEqual(expect.arrayContaining([["plumrise", "Sundrift Classic"], ["sundrift", "Plumrise Classic"]]));
+    await admin.put("/api/portfolio-settings/brand-names").send({ brands: [{ id: plumrise, name: "Plumrise" }, { id: sundrift, name: "Sundrift" }] }).expect(200);
+  });
+});
+
 function answerCode(s: PortfolioSettings, id: string): string {
   return s.channels.find((c) => c.id === id)!.code;
 }
@@ -238,6 +435,33 @@ describe("bad input: a 400 naming the field, and nothing changed", () => {
     ["a channel left out", "/api/portfolio-settings/channels", "put", () => channelBody((l) => l.slice(1)), "channels"],
     ["an unknown channel", "/api/portfolio-settings/channels", "put", () => channelBody((l) => [...l, { id: "no-such-channel", code: "x", name: "Billboards" }]), "channels.5.id"],
     ["a channel listed twice", "/api/portfolio-settings/channels", "put", () => channelBody((l) => [...l, l[0]!]), "channels.5.id"],
+    ["an empty brand name", "/api/portfolio-settings/brand-names", "put", () => ({ brands: [{ id: w.brandId.get("Kestrova"), name: " \u200B " }] }), "brands.0.name"],
+    ["a brand name of 101 characters", "/api/portfolio-settings/brand-names", "put", () => ({ brands: [{ id: w.brandId.get("Kestrova"), name: "K".repeat(101) }] }), "brands.0.name"],
+    ["a brand name a spreadsheet would run", "/api/portfolio-settings/brand-names", "put", () => ({ brands: [{ id: w.brandId.get("Kestrova"), name: "=cmd" }] }), "brands.0.name"],
+    ["a brand name another brand has (case and spacing aside)", "/api/portfolio-settings/brand-names", "put", () => ({ brands: [{ id: w.brandId.get("Kestrova"), name: " PLUMRISE " }] }), "brands.0.name"],
+    [
+      "two brands given one name",
+      "/api/portfolio-settings/brand-names",
+      "put",
+      () => ({ brands: [{ id: w.brandId.get("Kestrova"), name: "Larkholm" }, { id: w.brandId.get("Plumrise"), name: "larkholm" }] }),
+      "brands.1.name",
+    ],
+    [
+      "two brands swapping names that spell each other's codes (data files would change brand)",
+      "/api/portfolio-settings/brand-names",
+      "put",
+      () => ({ brands: [{ id: w.brandId.get("Kestrova"), name: "Plumrise" }, { id: w.brandId.get("Plumrise"), name: "Kestrova" }] }),
+      "brands.0.name",
+    ],
+    ["a brand name spelling another brand's code", "/api/portfolio-settings/brand-names", "put", () => ({ brands: [{ id: w.brandId.get("Kestrova"), name: "Sündrift" }] }), "brands.0.name"],
+    ["an unknown brand", "/api/portfolio-settings/brand-names", "put", () => ({ brands: [{ id: w.brandId.get("Kestrova"), name: "Kestrova Home" }, { id: "no-such-brand", name: "Other" }] }), "brands.1.id"],
+    ["a brand renamed twice in one change", "/api/portfolio-settings/brand-names", "put", () => ({ brands: [{ id: w.brandId.get("Kestrova"), name: "A" }, { id: w.brandId.get("Kestrova"), name: "B" }] }), "brands.1.id"],
+    ["no brands", "/api/portfolio-settings/brand-names", "put", () => ({ brands: [] }), "brands"],
+    ["a brand name as a number", "/api/portfolio-settings/brand-names", "put", () => ({ brands: [{ id: w.brandId.get("Kestrova"), name: 7 }] }), "brands.0.name"],
+    ["an empty market name", "/api/portfolio-settings/market-names", "put", () => ({ markets: [{ id: w.marketId.get("Veltria"), name: "" }] }), "markets.0.name"],
+    ["a market name another market has", "/api/portfolio-settings/market-names", "put", () => ({ markets: [{ id: w.marketId.get("Veltria"), name: "solvera" }] }), "markets.0.name"],
+    ["a market name that reads backwards", "/api/portfolio-settings/market-names", "put", () => ({ markets: [{ id: w.marketId.get("Veltria"), name: "Vel\u202Etria" }] }), "markets.0.name"],
+    ["an unknown market", "/api/portfolio-settings/market-names", "put", () => ({ markets: [{ id: "no-such-market", name: "Nowhere" }] }), "markets.0.id"],
   ];
   for (const [label, path, method, body, field] of cases) {
     it(label, async () => {
@@ -270,11 +494,13 @@ describe("only admins", () => {
       await agent.patch("/api/portfolio-settings/company").send({ companyName: "Taken over" }),
       await agent.put("/api/portfolio-settings/customer-values").send({ brands: [{ id: w.brandId.get("Kestrova"), customerValue: 1 }] }),
       await agent.put("/api/portfolio-settings/channels").send(await channelBody((l) => l.map((c) => ({ ...c, name: `${c.name} 2` })))),
+      await agent.put("/api/portfolio-settings/brand-names").send({ brands: [{ id: w.brandId.get("Kestrova"), name: "Taken over" }] }),
+      await agent.put("/api/portfolio-settings/market-names").send({ markets: [{ id: w.marketId.get("Veltria"), name: "Taken over" }] }),
     ];
     for (const who of ["portfolioLead", "analyst", "veltriaManager", "southManager"] as const) {
-      expect((await writes(w.agents[who])).map((r) => r.status), who).toEqual([403, 403, 403, 403]);
+      expect((await writes(w.agents[who])).map((r) => r.status), who).toEqual([403, 403, 403, 403, 403, 403]);
     }
-    expect((await writes(anonymous(w))).map((r) => r.status)).toEqual([401, 401, 401, 401]);
+    expect((await writes(anonymous(w))).map((r) => r.status)).toEqual([401, 401, 401, 401, 401, 401]);
     expect(await state()).toEqual(before);
     const brandRows = await w.db.select({ v: brands.customerValue }).from(brands).where(inArray(brands.code, ["kestrova"]));
     expect(brandRows[0]?.v).toBe(140);

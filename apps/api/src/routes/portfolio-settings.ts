@@ -1,9 +1,9 @@
 // Portfolio settings (admins): company name, reporting currency, customer value per brand,
-// channel names and order. Reading is for admins too: the list names every brand, which a
+// brand and market names, channel names and order. Reading is for admins too: the list names every brand, which a
 // market manager's lists never do.
-import { channelSettingsInput, companySettingsInput, customerValuesInput, type PortfolioSettings } from "@tributary/contracts";
+import { brandNamesInput, channelSettingsInput, companySettingsInput, customerValuesInput, marketNamesInput, type PortfolioSettings } from "@tributary/contracts";
 import { defineRoute, markets, signedIn } from "../access/route-table";
-import { portfolioSettings, updateChannelSettings, updateCompanySettings, updateCustomerValues } from "../settings/portfolio-settings";
+import { portfolioSettings, updateBrandNames, updateChannelSettings, updateCompanySettings, updateCustomerValues, updateMarketNames } from "../settings/portfolio-settings";
 
 const admins = ["admin"] as const;
 
@@ -31,5 +31,17 @@ export const portfolioSettingsRoutes = [
     path: "/api/portfolio-settings/channels",
     access: signedIn(markets.unscoped, admins),
     handler: ({ req, db, user }): Promise<PortfolioSettings> => updateChannelSettings(db, user, channelSettingsInput.parse(req.body ?? {})),
+  }),
+  defineRoute({
+    method: "put",
+    path: "/api/portfolio-settings/brand-names",
+    access: signedIn(markets.unscoped, admins),
+    handler: ({ req, db, user }): Promise<PortfolioSettings> => updateBrandNames(db, user, brandNamesInput.parse(req.body ?? {})),
+  }),
+  defineRoute({
+    method: "put",
+    path: "/api/portfolio-settings/market-names",
+    access: signedIn(markets.unscoped, admins),
+    handler: ({ req, db, user }): Promise<PortfolioSettings> => updateMarketNames(db, user, marketNamesInput.parse(req.body ?? {})),
   }),
 ];

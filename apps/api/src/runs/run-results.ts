@@ -21,6 +21,8 @@ import type { Queryable } from "../db/client";
 import { cells, runDraws, runResults, runs, workspaceSettings } from "../db/schema";
 import { Conflict, NotFound } from "../http/errors";
 import { concatenateDraws, runDrawSet, type NamedDrawRows } from "../jobs/predictive-check";
+import { parameterLabeller } from "../jobs/run-report-data";
+import { entityNames } from "../queries/entity-names";
 import { fitOptionsOf, loadFitInput } from "./fit-input";
 import { modelSettingsRecord } from "./model-settings-queries";
 import { runForScope } from "./run-queries";
@@ -44,10 +46,16 @@ export function storedFitResult(db: Queryable, runId: string): Promise<StoredFit
   return storedResult<StoredFitResult>(db, runId, resultKinds.fit);
 }
 
-/** Workspace ids (cell, brand, market) of the fit's cells, by cell index. */
+/**
+ * Workspace ids (cell, brand, market) of the fit's cells, by cell index, with the brand's
+ * and market's names as they are now (the stored results carry the names at fit time).
+ */
 async function cellRefs(db: Queryable, cellIds: readonly string[]) {
-  const rows = cellIds.length > 0 ? await db.select({ id: cells.id, brandId: cells.brandId, marketId: cells.marketId }).from(cells).where(inArray(cells.id, [...cellIds])) : [];
-  const byId = new Map(rows.map((row) => [row.id, row] as const));
+  const [rows, names] = await Promise.all([
+    cellIds.length > 0 ? db.select({ id: cells.id, brandId: cells.brandId, marketId: cells.marketId }).from(cells).where(inArray(cells.id, [...cellIds])) : [],
+    entityNames(db),
+  ]);
+  const byId = new Map(rows.map((row) => [row.id, { ...row, brand: names.brands.get(row.brandId), market: names.markets.get(row.marketId) }] as const));
   return cellIds.map((id) => byId.get(id));
 }
 
@@ -68,8 +76,8 @@ export async function runResultsFor(db: Queryable, run: Run, scope: MarketScope)
       cellId: ref.id,
       brandId: ref.brandId,
       marketId: ref.marketId,
-      brand: cell.brand,
-      market: cell.market,
+      brand: ref.brand ?? cell.brand,
+      market: ref.market ?? cell.market,
       channel: cell.channel,
       hasSpend: cell.hasSpend,
       cac0: cell.cac0,
@@ -101,17 +109,30 @@ interface StoredReport {
 export async function runReportOf(db: Queryable, run: Run): Promise<RunReport> {
   requireSucceeded(run);
   const [result, report] = await Promise.all([
-    storedResult<FitSummaries>(db, run.id, resultKinds.fit),
+    storedResult<StoredFitResult>(db, run.id, resultKinds.fit),
     storedResult<StoredReport>(db, run.id, resultKinds.report),
   ]);
+  // Labels and cells under the brands' and markets' current names (the report stored those at fit time).
+  const refs = await cellRefs(db, result.cellIds);
+  const byCellId = new Map(refs.flatMap((ref) => (ref ? [[ref.id, ref] as const] : [])));
+  const renamed = <T extends { cellId: string; brand: string; market: string }>(cell: T): T => {
+    const ref = byCellId.get(cell.cellId);
+    return { ...cell, brand: ref?.brand ?? cell.brand, market: ref?.market ?? cell.market };
+  };
+  const fitCells = result.cells;
+  const cellCount = refs.length;
+  const namesAtFit = Array.from({ length: cellCount }, (_, g) => fitCells.find((c) => c.cell === g));
+  const label = parameterLabeller({
+    cells: refs.map((ref, g) => ({ brand: ref?.brand ?? namesAtFit[g]?.brand ?? `cell ${g}`, market: ref?.market ?? namesAtFit[g]?.market ?? "" })),
+  });
   return {
     run,
     // Stored as JSON: numbers that are not defined (NaN) come back as null, as the view allows.
     diagnostics: result.diagnostics as unknown as FitDiagnosticsView,
-    parameters: report.parameters,
-    traces: report.traces,
-    predictiveCheck: report.predictiveCheck,
-    holdout: report.holdout,
+    parameters: report.parameters.map((p) => ({ ...p, label: label(p.name) })),
+    traces: report.traces.map((trace) => ({ ...trace, label: label(trace.name) })),
+    predictiveCheck: report.predictiveCheck.map(renamed),
+    holdout: report.holdout ? { ...report.holdout, cells: report.holdout.cells.map(renamed) } : null,
     timing: result.timing,
   };
 }

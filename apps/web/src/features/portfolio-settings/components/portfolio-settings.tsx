@@ -5,15 +5,16 @@ import { usePortfolioSettings } from "../api/get-portfolio-settings";
 import { ChannelsForm } from "./channels-form";
 import { CompanyForm } from "./company-form";
 import { CustomerValuesForm } from "./customer-values-form";
+import { EntityNamesForm } from "./entity-names-form";
 
-/** Admins: the company name, reporting currency, customer value per brand, and the channels' names and order. */
+/** Admins: the company name, reporting currency, customer value per brand, brand and market names, and the channels' names and order. */
 export function PortfolioSettings() {
   const settings = usePortfolioSettings();
   return (
     <>
       <PageHeader
         title="Portfolio settings"
-        description="What the whole workspace shares: the company name, the currency money is labelled in, what a new customer is worth to each brand, and how channels are named and ordered. Every change is in the audit log."
+        description="What the whole workspace shares: the company name, the currency money is labelled in, what a new customer is worth to each brand, how brands and markets are named, and how channels are named and ordered. Every change is in the audit log."
       />
       {settings.isPending ? (
         <LoadingState label="Loading the portfolio settings…" />
@@ -23,6 +24,8 @@ export function PortfolioSettings() {
         <div className="space-y-8">
           <CompanyForm settings={settings.data} />
           <CustomerValuesForm settings={settings.data} />
+          <EntityNamesForm kind="brand" settings={settings.data} />
+          <EntityNamesForm kind="market" settings={settings.data} />
           <ChannelsForm settings={settings.data} />
         </div>
       )}

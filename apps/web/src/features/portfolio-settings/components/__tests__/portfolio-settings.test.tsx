@@ -6,13 +6,17 @@ import { createQueryClient } from "../../../../lib/query-client";
 import { customerValueOf } from "../customer-values-form";
 import { PortfolioSettings } from "../portfolio-settings";
 
-// Invented test data: a fictional group with fictional brands.
+// Invented test data: a fictional group with fictional brands and markets.
 const settings: Settings = {
   company: "Tallowmere Goods Co",
   currency: "EUR",
   brands: [
     { id: "b-fen", code: "fennick", name: "Fennick", customerValue: 120 },
     { id: "b-hol", code: "hollo", name: "Hollowby", customerValue: null },
+  ],
+  markets: [
+    { id: "m-ard", code: "ardeval", name: "Ardeval" },
+    { id: "m-bri", code: "brisk", name: "Briskmoor" },
   ],
   channels: [
     { id: "ch-s", code: "search", name: "Search", position: 0 },
@@ -169,6 +173,64 @@ describe("Portfolio settings", () => {
     expect(calls.filter((call) => call.method === "PUT")).toHaveLength(0);
     fireEvent.click(within(channels).getByRole("button", { name: "Undo changes" }));
     await waitFor(() => expect(within(channels).getAllByRole("textbox").map((input) => (input as HTMLInputElement).value)).toEqual(["Search", "Radio", "Print"]));
+  });
+
+  it("renames a brand: only the changed name is sent, tidied, and the form then holds the saved names", async () => {
+    const { calls } = routes({
+      "PUT /api/portfolio-settings/brand-names": ({ body }) => {
+        const sent = (body as { brands: { id: string; name: string }[] }).brands;
+        return jsonResponse(200, { ...settings, brands: settings.brands.map((b) => ({ ...b, name: sent.find((s) => s.id === b.id)?.name ?? b.name })) });
+      },
+    });
+    renderWithProviders(<PortfolioSettings />);
+    const names = await form("Brand names");
+    expect(within(names).getAllByRole("textbox").map((input) => (input as HTMLInputElement).value)).toEqual(["Fennick", "Hollowby"]);
+    // The codes are shown, not editable.
+    expect(within(names).getByRole("cell", { name: "hollo" })).toBeTruthy();
+    expect(within(names).getByText(/a data file may still use the old name/)).toBeTruthy();
+    const save = within(names).getByRole("button", { name: "Save brand names" }) as HTMLButtonElement;
+    expect(save.disabled).toBe(true);
+
+    fireEvent.change(within(names).getByLabelText("Display name of hollo"), { target: { value: "  Hollowby   Home " } });
+    fireEvent.click(save);
+    expect((await within(names).findByText(/Saved: “Hollowby” is now “Hollowby Home”/)).getAttribute("role")).toBe("status");
+    expect(calls.filter((call) => call.method === "PUT").map((call) => call.body)).toEqual([{ brands: [{ id: "b-hol", name: "Hollowby Home" }] }]);
+    expect((within(names).getByLabelText("Display name of hollo") as HTMLInputElement).value).toBe("Hollowby Home");
+    expect((within(names).getByRole("button", { name: "Save brand names" }) as HTMLButtonElement).disabled).toBe(true);
+  });
+
+  it("refuses an empty or duplicate market name before sending, and shows the server's refusal beside the name it names", async () => {
+    const { calls } = routes({
+      "PUT /api/portfolio-settings/market-names": () =>
+        jsonResponse(400, {
+          error: {
+            code: "invalid_input",
+            message: 'Data files would read "Ardevale" as the market with code "ardeval"',
+            issues: [{ path: "markets.0.name", message: 'Data files would read "Ardevale" as the market with code "ardeval" (now "Ardeval")' }],
+            requestId: "r-3",
+          },
+        }),
+    });
+    renderWithProviders(<PortfolioSettings />);
+    const names = await form("Market names");
+    const briskmoor = within(names).getByLabelText("Display name of brisk");
+    fireEvent.change(briskmoor, { target: { value: " ARDEVAL " } });
+    fireEvent.click(within(names).getByRole("button", { name: "Save market names" }));
+    expect((await within(names).findByText('Another market is already called "Ardeval"')).id).toBe("market-name-m-bri-error");
+    expect(briskmoor.getAttribute("aria-invalid")).toBe("true");
+    fireEvent.change(briskmoor, { target: { value: "\u200B " } });
+    fireEvent.click(within(names).getByRole("button", { name: "Save market names" }));
+    expect((await within(names).findByText("The market name cannot be empty")).id).toBe("market-name-m-bri-error");
+    expect(calls.filter((call) => call.method === "PUT")).toHaveLength(0);
+
+    fireEvent.click(within(names).getByRole("button", { name: "Undo changes" }));
+    await waitFor(() => expect(within(names).getAllByRole("textbox").map((input) => (input as HTMLInputElement).value)).toEqual(["Ardeval", "Briskmoor"]));
+    fireEvent.change(within(names).getByLabelText("Display name of brisk"), { target: { value: "Ardevale" } });
+    fireEvent.click(within(names).getByRole("button", { name: "Save market names" }));
+    // Briskmoor is the only market sent, so the server's index 0 is Briskmoor's row.
+    expect((await within(names).findByText(/Data files would read "Ardevale"/)).id).toBe("market-name-m-bri-error");
+    expect(within(names).getByRole("alert").textContent).toBe("Not saved: check the fields marked above.");
+    expect(calls.filter((call) => call.method === "PUT").map((call) => call.body)).toEqual([{ markets: [{ id: "m-bri", name: "Ardevale" }] }]);
   });
 
   it("warns that a new currency relabels figures without converting them, and saves name and currency", async () => {
