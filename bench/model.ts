@@ -286,12 +286,14 @@ function agreement(z: number[]) {
 
 /** Stan's side: a fresh run (with the density check) or the run of an earlier result file. */
 function stanSide(): { run: StanRun; density: string | ReturnType<typeof densityCheck> } {
-  if (stanFrom !== undefined) {
-    return { run: stanFromFile(stanFrom), density: `not run: the Stan run was taken from ${stanFrom} (run without --stan-from to compare the densities)` };
-  }
   const dir = mkdtempSync(join(tmpdir(), "tributary-model-"));
   const dataFile = join(dir, "data.json");
   writeFileSync(dataFile, JSON.stringify(stanData(data)));
+  if (stanFrom !== undefined) {
+    // the densities are still compared with the current code when R and rstan are here
+    const density = stanAvailable() === null ? densityCheck(dataFile, dir) : `not run: R with rstan not found (the Stan run was taken from ${stanFrom})`;
+    return { run: stanFromFile(stanFrom), density };
+  }
   const density = densityCheck(dataFile, dir);
   const script = fileURLToPath(new URL("./model-stan.R", import.meta.url));
   const cores = String(Math.min(4, availableParallelism()));

@@ -68,12 +68,14 @@ export function fitCellEffectGuide(constants: PortfolioConstants): CellEffectGui
 /**
  * Variance added to every least-squares ŝ² before it guides the sampler (sd at least
  * √0.1 ≈ 0.32 on log β). ŝ holds the baseline, α and λ fixed, so a long cell's guide can be
- * far narrower than where its log β moves; with such a guide the cell coordinate is almost
- * centred while τ of the cell level crosses ŝ, and trajectories through that crossing
- * diverged. Measured with bench/model-divergences.ts over 12 fits of the example portfolio
+ * far narrower than where its log β moves (on the example portfolio, strong cells' posterior
+ * sd was about twice ŝ). The recorded divergent trajectories (bench/model-divergences.ts) ran
+ * along the τ's of the pooling levels; widening only the strong cells' guides (ŝ < 0.1)
+ * removed most of them, widening by a factor did not, so the floor is additive. Measured with bench/model-divergence-sweep.ts over 12 fits of the example portfolio
  * (data seeds 1, 2, 4 × sampler seeds 1–4): 76 divergent transitions with no floor, 22 with
- * 0.07, 7 with 0.1; the demo portfolio went from 4 to 0 (seed 1). The price is a smaller
- * step on portfolios of long, strong cells (the benchmark portfolio: about 1.8× the
+ * 0.07, 7–12 with 0.1 (bench/results/model-divergence-sweep-*.json); the demo portfolio went
+ * from 4 to 0 (seed 1) and stays at 0 over seeds 1–4. The price is a smaller step on
+ * portfolios of long, strong cells (the benchmark portfolio: about 1.8× the
  * gradients). Sampler geometry only: the posterior does not depend on it.
  */
 export const GUIDE_VARIANCE_FLOOR = 0.1;
