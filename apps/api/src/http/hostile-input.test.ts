@@ -217,6 +217,18 @@ const writes: Record<string, WriteCase> = {
     as: "admin",
     valid: async () => ({ channels: (await w.db.select({ id: schema.channels.id, name: schema.channels.name }).from(schema.channels).orderBy(schema.channels.position)).map((c) => ({ id: c.id, name: c.name })) }),
   },
+  "PUT /api/portfolio-settings/brand-names": {
+    method: "put",
+    path: () => "/api/portfolio-settings/brand-names",
+    as: "admin",
+    valid: () => ({ brands: [{ id: w.brandId.get("Kestrova"), name: "Kestrova" }] }),
+  },
+  "PUT /api/portfolio-settings/market-names": {
+    method: "put",
+    path: () => "/api/portfolio-settings/market-names",
+    as: "admin",
+    valid: () => ({ markets: [{ id: w.marketId.get("Veltria"), name: "Veltria" }] }),
+  },
   "POST /api/runs/:runId/publish": { method: "post", path: () => `/api/runs/${w.secondRunId}/publish`, as: "analyst", valid: () => ({ reason: "x" }), runs: 10 },
 };
 
