@@ -4,9 +4,9 @@ import { useEffect, useRef, useState } from "react";
 import { useFieldArray, useForm } from "react-hook-form";
 import type { z } from "zod";
 import { Button } from "../../../components/ui/button";
-import { inputClass } from "../../../components/ui/field";
 import { ApiError } from "../../../lib/api-client";
 import { channelSettingsInput, useUpdateChannelSettings } from "../api/update-channel-settings";
+import { DisplayNameInput } from "./display-name-input";
 import { FormActions, SaveFeedback } from "./save-feedback";
 
 type ChannelsForm = z.input<typeof channelSettingsInput>;
@@ -108,24 +108,14 @@ export function ChannelsForm({ settings }: { settings: PortfolioSettings }) {
                 <tr key={field.key} className="border-b border-line/70 align-middle">
                   <td className="py-2 pr-3 tabular-nums text-ink-600">{k + 1}</td>
                   <td className="py-2 pr-4">
-                    <label htmlFor={inputId} className="sr-only">
-                      Display name of {code}
-                    </label>
-                    <input
-                      id={inputId}
-                      type="text"
-                      autoComplete="off"
-                      maxLength={portfolioSettingsBounds.channelName.max + 20}
-                      className={`${inputClass} w-64`}
-                      aria-invalid={error ? true : undefined}
-                      aria-describedby={error ? `${inputId}-error` : undefined}
-                      {...form.register(`channels.${k}.name`)}
+                    <DisplayNameInput
+                      inputId={inputId}
+                      code={code}
+                      maxLength={portfolioSettingsBounds.channelName.max}
+                      widthClass="w-64"
+                      error={error?.message}
+                      registration={form.register(`channels.${k}.name`)}
                     />
-                    {error ? (
-                      <p id={`${inputId}-error`} className="mt-1 max-w-xs text-caption font-medium text-alert-700">
-                        {error.message}
-                      </p>
-                    ) : null}
                   </td>
                   <td className="py-2 pr-4 font-mono text-caption text-ink-700">{code}</td>
                   <td className="py-1.5">

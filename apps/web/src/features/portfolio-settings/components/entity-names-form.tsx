@@ -3,9 +3,9 @@ import { portfolioSettingsBounds, type PortfolioSettings } from "@tributary/cont
 import { useEffect, useState } from "react";
 import { useFieldArray, useForm } from "react-hook-form";
 import { z } from "zod";
-import { inputClass } from "../../../components/ui/field";
 import { ApiError } from "../../../lib/api-client";
 import { brandNamesInput, marketNamesInput, useUpdateBrandNames, useUpdateMarketNames } from "../api/update-entity-names";
+import { DisplayNameInput } from "./display-name-input";
 import { FormActions, SaveFeedback } from "./save-feedback";
 
 type Kind = "brand" | "market";
@@ -109,24 +109,14 @@ export function EntityNamesForm({ kind, settings }: { kind: Kind; settings: Port
               return (
                 <tr key={field.key} className="border-b border-line/70 align-middle">
                   <td className="py-2 pr-4">
-                    <label htmlFor={inputId} className="sr-only">
-                      Display name of {code}
-                    </label>
-                    <input
-                      id={inputId}
-                      type="text"
-                      autoComplete="off"
-                      maxLength={max + 20}
-                      className={`${inputClass} w-72`}
-                      aria-invalid={error ? true : undefined}
-                      aria-describedby={error ? `${inputId}-error` : undefined}
-                      {...form.register(`entries.${k}.name`)}
+                    <DisplayNameInput
+                      inputId={inputId}
+                      code={code}
+                      maxLength={max}
+                      widthClass="w-72"
+                      error={error?.message}
+                      registration={form.register(`entries.${k}.name`)}
                     />
-                    {error ? (
-                      <p id={`${inputId}-error`} className="mt-1 max-w-md text-caption font-medium text-alert-700">
-                        {error.message}
-                      </p>
-                    ) : null}
                   </td>
                   <td className="py-2 font-mono text-caption text-ink-700">{code}</td>
                 </tr>
