@@ -83,7 +83,7 @@ export function SavedScenarios({ user, currency, onOpen, opening }: SavedScenari
             </Button>
           </span>
         ) : (
-          <span className="inline-flex items-center gap-1">
+          <span className="inline-flex flex-wrap items-center gap-1">
             <Button variant="secondary" className="px-2! py-1!" onClick={() => onOpen(plan)} disabled={opening !== null} aria-label={`Open ${plan.name}`}>
               {opening === plan.id ? "Opening…" : "Open"}
             </Button>
