@@ -15,6 +15,11 @@ const channelName = channelNameLookup([
   { code: "radio", name: "Local radio" },
 ]);
 
+/** A saved split of cells c1 and c3: 30,000 over 13 weeks for the most customers, expected outcome. */
+function splitInput(name: string): BudgetSplitPlanInput {
+  return { name, runId: "run-7", cellIds: ["c1", "c3"], totalBudget: 30000, horizon: 13, recentWeeks: 13, bounds: [], objective: { kind: "customers" }, risk: { kind: "expected" }, allocation: [] };
+}
+
 /** What the server answers to a saved split: the same computation on the same draws, in the API's shape. */
 function savedPlan(body: BudgetSplitPlanInput, status: BudgetSplitPlan["status"], can: Partial<BudgetSplitPlan["can"]>): BudgetSplitPlan {
   const api = createSplitApi();
@@ -134,18 +139,7 @@ describe("BudgetSplit", () => {
   }, 30_000);
 
   it("lets a portfolio lead approve a submitted split, and asks for a comment to reject it", async () => {
-    const body: BudgetSplitPlanInput = {
-      name: "Q3 split from the analyst",
-      runId: "run-7",
-      cellIds: ["c1", "c3"],
-      totalBudget: 30000,
-      horizon: 13,
-      recentWeeks: 13,
-      bounds: [],
-      objective: { kind: "customers" },
-      risk: { kind: "expected" },
-      allocation: [],
-    };
+    const body = splitInput("Q3 split from the analyst");
     let plan: BudgetSplitPlan = { ...savedPlan(body, "submitted", { decide: true, rename: false, delete: false, edit: false }), createdBy: { id: "u-n", name: "Nell Ostrand" } };
     const summary: PlanSummary = {
       id: plan.id,
@@ -193,18 +187,7 @@ describe("BudgetSplit", () => {
   }, 30_000);
 
   it("lets the author rename an approved split: the name changes, the approval and numbers stay", async () => {
-    const body: BudgetSplitPlanInput = {
-      name: "Q3 split",
-      runId: "run-7",
-      cellIds: ["c1", "c3"],
-      totalBudget: 30000,
-      horizon: 13,
-      recentWeeks: 13,
-      bounds: [],
-      objective: { kind: "customers" },
-      risk: { kind: "expected" },
-      allocation: [],
-    };
+    const body = splitInput("Q3 split");
     let plan: BudgetSplitPlan = {
       ...savedPlan(body, "approved", { edit: false, delete: false }),
       createdBy: { id: "u-n", name: "Nell Ostrand" },
